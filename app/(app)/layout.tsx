@@ -1,0 +1,32 @@
+import type { ReactNode } from "react";
+import { AppShell } from "@/app/_components/app-shell";
+import { NAV_ITEMS, type NavItem } from "@/app/_components/nav-items";
+import { can, requirePageUser, type CurrentUser } from "@/lib/auth/guards";
+import type { Permission } from "@/lib/auth/permissions";
+
+// The signed-in frame. The user is checked here, before anything streams, so a signed-out or
+// disabled visitor gets a real redirect; each page still checks its own permission.
+
+const NAV_PERMISSION: Partial<Record<NavItem["key"], Permission>> = {
+  apparatus: "apparatus.read",
+  applications: "application.create",
+  review: "application.review",
+  permits: "apparatus.read",
+  admin: "admin.users",
+};
+
+function visibleNav(user: CurrentUser): NavItem[] {
+  return NAV_ITEMS.filter((item) => {
+    const permission = NAV_PERMISSION[item.key];
+    return !permission || can(user, permission);
+  });
+}
+
+export default async function SignedInLayout({ children }: { children: ReactNode }) {
+  const user = await requirePageUser();
+  return (
+    <AppShell navItems={visibleNav(user)} user={{ name: user.name, roles: user.roles }}>
+      {children}
+    </AppShell>
+  );
+}

@@ -1,0 +1,67 @@
+"use client";
+
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useState } from "react";
+import { useForm } from "react-hook-form";
+import { z } from "zod";
+import { Alert } from "@/app/_components/alert";
+import { Button } from "@/app/_components/button";
+import { Field } from "@/app/_components/field";
+import { ApiError, apiFetch } from "@/lib/client/api";
+
+const formSchema = z.object({
+  email: z.string().trim().min(1, "Enter your e-mail address.").email("Enter a valid e-mail address."),
+  password: z.string().min(1, "Enter your password."),
+});
+type FormValues = z.infer<typeof formSchema>;
+
+export function SignInForm({ from }: { from: string }) {
+  const [error, setError] = useState<string | null>(null);
+  const {
+    register,
+    handleSubmit,
+    formState: { errors, isSubmitting },
+  } = useForm<FormValues>({ resolver: zodResolver(formSchema) });
+
+  const onSubmit = handleSubmit(async (values) => {
+    setError(null);
+    try {
+      const result = await apiFetch<{ redirectTo: string }>("/api/session", { body: { ...values, from } });
+      // A full navigation, so every server component renders with the new session.
+      window.location.assign(result.redirectTo);
+    } catch (e) {
+      if (e instanceof ApiError && e.status === 429 && e.retryAfterSeconds) {
+        const minutes = Math.ceil(e.retryAfterSeconds / 60);
+        setError(`Too many failed sign-ins. Try again in about ${minutes} minute${minutes === 1 ? "" : "s"}.`);
+      } else {
+        setError(e instanceof Error ? e.message : "Sign-in failed.");
+      }
+    }
+  });
+
+  return (
+    <form onSubmit={onSubmit} noValidate className="mt-6 flex flex-col gap-4">
+      <div aria-live="assertive">
+        {error && (
+          <Alert tone="error" live>
+            {error}
+          </Alert>
+        )}
+      </div>
+      <Field label="E-mail" type="email" autoComplete="username" {...register("email")} error={errors.email?.message} />
+      <Field
+        label="Password"
+        type="password"
+        autoComplete="current-password"
+        {...register("password")}
+        error={errors.password?.message}
+      />
+      <Button type="submit" disabled={isSubmitting}>
+        {isSubmitting ? "Signing in…" : "Sign in"}
+      </Button>
+      <p className="text-xs text-stone-600">
+        No account? Ask your institution&rsquo;s Arcwarden admin for an invitation.
+      </p>
+    </form>
+  );
+}

@@ -1,0 +1,57 @@
+import Link from "next/link";
+import type { ReactNode } from "react";
+import { Caution } from "./caution";
+import { Wordmark } from "./logo";
+import { Nav } from "./nav";
+import type { NavItem } from "./nav-items";
+import { UserMenu, type ShellUser } from "./user-menu";
+
+type AppShellProps = {
+  /** Navigation items this user may see (filter NAV_ITEMS by permission before passing). */
+  navItems: readonly NavItem[];
+  user: ShellUser | null;
+  children: ReactNode;
+};
+
+/** The signed-in frame: skip link, header with mark, navigation and user menu; main; footer caution. */
+export function AppShell({ navItems, user, children }: AppShellProps) {
+  return (
+    <div className="flex min-h-dvh flex-col">
+      <a
+        href="#main"
+        className="sr-only rounded-md bg-ink-800 text-sm font-medium text-white focus:not-sr-only focus:fixed focus:top-2 focus:left-2 focus:z-50 focus:px-3 focus:py-2"
+      >
+        Skip to main content
+      </a>
+
+      <header className="relative z-20 border-b border-stone-200 bg-white">
+        <div className="mx-auto flex h-14 max-w-shell items-center gap-4 px-4 sm:px-6 lg:gap-8">
+          <Link href="/" className="-m-1 shrink-0 rounded-md p-1 no-underline" aria-label="Arcwarden — dashboard">
+            <Wordmark />
+          </Link>
+          <div className="ml-auto flex h-full items-center md:ml-0">
+            <Nav items={navItems}>{user && <UserMenu user={user} layout="stack" />}</Nav>
+          </div>
+          <UserMenu user={user} className="ml-auto hidden md:flex" />
+        </div>
+      </header>
+
+      <main
+        id="main"
+        tabIndex={-1}
+        className="mx-auto w-full max-w-shell flex-1 px-4 py-6 outline-none sm:px-6 sm:py-8"
+      >
+        {children}
+      </main>
+
+      <footer className="border-t border-stone-200 bg-white">
+        <div className="mx-auto flex max-w-shell flex-col gap-2 px-4 py-4 sm:px-6 md:flex-row md:items-start md:justify-between md:gap-8">
+          <Caution variant="compact" className="max-w-3xl" />
+          <p className="shrink-0 text-xs leading-5 text-stone-500">
+            Arcwarden advises; it does not replace a qualified person.
+          </p>
+        </div>
+      </footer>
+    </div>
+  );
+}

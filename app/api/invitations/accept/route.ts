@@ -1,0 +1,12 @@
+// POST /api/invitations/accept — the invited person sets their password with the link's token; the
+// account is created, the link is spent, and they are signed in.
+import { signIn } from "@/auth";
+import { route } from "@/lib/http/route";
+import { acceptInvitation } from "@/lib/users/actions";
+import { acceptInviteSchema } from "@/lib/validation/auth";
+
+export const POST = route({ access: "public", body: acceptInviteSchema }, async ({ body }) => {
+  const user = await acceptInvitation(body.token, body.password);
+  await signIn("credentials", { email: user.email, password: body.password, redirect: false });
+  return Response.json({ ok: true, user: { id: user.id, email: user.email, name: user.name } }, { status: 201 });
+});

@@ -1,0 +1,12 @@
+// POST /api/me/password — the signed-in user changes their own password (current one required). Other
+// sessions end; this one is renewed.
+import { signIn } from "@/auth";
+import { route } from "@/lib/http/route";
+import { changePassword } from "@/lib/users/actions";
+import { changePasswordSchema } from "@/lib/validation/auth";
+
+export const POST = route({ access: "user", body: changePasswordSchema }, async ({ user, body }) => {
+  await changePassword(user, body.currentPassword, body.newPassword);
+  await signIn("credentials", { email: user.email, password: body.newPassword, redirect: false });
+  return { ok: true };
+});

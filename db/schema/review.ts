@@ -1,0 +1,63 @@
+import { index, integer, jsonb, pgEnum, pgTable, smallint, text, timestamp, unique, uuid } from "drizzle-orm/pg-core";
+import { applicationRevisions, applications } from "./applications";
+import { users } from "./users";
+
+// Signed decisions and the versioned rules they follow.
+
+export const DECISION_KINDS = ["recommend", "return", "approve", "reject", "revoke"] as const;
+export type DecisionKind = (typeof DECISION_KINDS)[number];
+export const decisionKindEnum = pgEnum("decision_kind", DECISION_KINDS);
+
+export const decisions = pgTable(
+  "decision",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    applicationId: uuid()
+      .notNull()
+      .references(() => applications.id, { onDelete: "restrict" }),
+    revisionId: uuid()
+      .notNull()
+      .references(() => applicationRevisions.id, { onDelete: "restrict" }),
+    kind: decisionKindEnum().notNull(),
+    // Position in the review chain (1 = reviewer, 2 = safety officer); revoke has none.
+    step: smallint(),
+    signerId: uuid()
+      .notNull()
+      .references(() => users.id, { onDelete: "restrict" }),
+    // Printed name and role at the time of signing, and what the signature means.
+    signerName: text().notNull(),
+    signerRole: text().notNull(),
+    meaning: text().notNull(),
+    // SHA-256 of the canonical content of the revision signed.
+    contentHash: text().notNull(),
+    comment: text(),
+    // Optional pin of a return comment to a form step or field path ("event.firstDay").
+    pinnedTo: text(),
+    conditions: jsonb().$type<string[]>(),
+    signedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    index("decision_application_idx").on(t.applicationId, t.signedAt),
+    // One signature per chain step of a revision: a second approval of the same step cannot exist.
+    unique("decision_revision_step_key").on(t.revisionId, t.step),
+  ],
+);
+
+// Chain rules (tier → review steps, longest validity, extra requirements) and tier rules (the
+// engine's thresholds), both versioned: an application keeps the version it was submitted under.
+export const ruleSets = pgTable(
+  "rule_set",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    kind: text({ enum: ["chain", "tier", "reminders"] }).notNull(),
+    version: integer().notNull(),
+    rules: jsonb().$type<Record<string, unknown>>().notNull(),
+    note: text().notNull().default(""),
+    createdById: uuid().references(() => users.id, { onDelete: "restrict" }),
+    createdAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [unique("rule_set_kind_version_key").on(t.kind, t.version)],
+);
+
+export type Decision = typeof decisions.$inferSelect;
+export type RuleSet = typeof ruleSets.$inferSelect;

@@ -1,0 +1,20 @@
+import { check, jsonb, pgTable, smallint, text, timestamp } from "drizzle-orm/pg-core";
+import { sql } from "drizzle-orm";
+
+// Institution-wide settings (one row): the name printed on permits, emergency contacts for the bench
+// card, and the time zone in which permit days and reminders are counted.
+export type EmergencyContact = { label: string; phone: string };
+
+export const institutionSettings = pgTable(
+  "institution_settings",
+  {
+    id: smallint().primaryKey().default(1),
+    name: text().notNull(),
+    timeZone: text().notNull().default("UTC"),
+    emergencyContacts: jsonb().$type<EmergencyContact[]>().notNull().default([]),
+    updatedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [check("institution_settings_single_row", sql`${t.id} = 1`)],
+);
+
+export type InstitutionSettings = typeof institutionSettings.$inferSelect;

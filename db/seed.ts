@@ -1,0 +1,66 @@
+// Demo data for the fictional Aldermere Institute of Technology: two departments and one user per
+// role, each with the demo password printed in the README. Idempotent: re-running adds only what is
+// missing. Refuses to run with NODE_ENV=production unless SEED_ALLOW_PRODUCTION=1.
+import { hashPassword } from "@/lib/auth/password";
+import { loadLocalEnv } from "@/scripts/lib/load-env";
+import { closeDb, getDb } from "./index";
+import { departments, users, type Role } from "./schema";
+
+export const DEMO_PASSWORD = "arcwarden-demo-2026";
+export const INSTITUTION_NAME = "Aldermere Institute of Technology";
+
+export const DEMO_DEPARTMENTS = [
+  { code: "PHYS", name: "Department of Physics" },
+  { code: "OUTR", name: "Science Outreach Centre" },
+] as const;
+
+export const DEMO_USERS: { email: string; name: string; roles: Role[]; department: string }[] = [
+  { email: "instructor@arcwarden.test", name: "Imogen Tallis", roles: ["instructor"], department: "PHYS" },
+  { email: "reviewer@arcwarden.test", name: "Rafael Quenby", roles: ["reviewer"], department: "PHYS" },
+  { email: "officer@arcwarden.test", name: "Dana Whitlock", roles: ["safety_officer"], department: "OUTR" },
+  { email: "admin@arcwarden.test", name: "Sam Ferreira", roles: ["admin"], department: "OUTR" },
+];
+
+export async function seed(): Promise<void> {
+  const db = getDb();
+  await db
+    .insert(departments)
+    .values([...DEMO_DEPARTMENTS])
+    .onConflictDoNothing();
+  const depts = await db.select({ id: departments.id, code: departments.code }).from(departments);
+  const deptId = new Map(depts.map((d) => [d.code, d.id]));
+
+  const existing = await db.select({ email: users.email }).from(users);
+  const have = new Set(existing.map((u) => u.email.toLowerCase()));
+  const missing = DEMO_USERS.filter((u) => !have.has(u.email));
+  if (missing.length > 0) {
+    const passwordHash = await hashPassword(DEMO_PASSWORD);
+    await db
+      .insert(users)
+      .values(
+        missing.map((u) => ({
+          email: u.email,
+          name: u.name,
+          roles: u.roles,
+          departmentId: deptId.get(u.department),
+          passwordHash,
+        })),
+      )
+      .onConflictDoNothing();
+  }
+  console.log(`  demo data: ${DEMO_DEPARTMENTS.length} departments, ${missing.length} user(s) added`);
+}
+
+if (import.meta.url === `file://${process.argv[1]}`) {
+  loadLocalEnv();
+  if (process.env.NODE_ENV === "production" && process.env.SEED_ALLOW_PRODUCTION !== "1") {
+    console.error("Refusing to seed demo data with NODE_ENV=production (set SEED_ALLOW_PRODUCTION=1 to insist).");
+    process.exit(1);
+  }
+  seed()
+    .catch((error: unknown) => {
+      console.error("seed failed:", error instanceof Error ? error.message : error);
+      process.exitCode = 1;
+    })
+    .finally(() => closeDb());
+}

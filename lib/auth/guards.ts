@@ -1,0 +1,77 @@
+import "server-only";
+import { eq } from "drizzle-orm";
+import { redirect } from "next/navigation";
+import { cache } from "react";
+import { auth } from "@/auth";
+import { db } from "@/db";
+import { users, type Role } from "@/db/schema";
+import { AppError, forbidden, unauthenticated } from "@/lib/http/errors";
+import { rolesHave, type Permission } from "./permissions";
+
+// The data-access gate. Every route handler, server action and server component that reads or
+// writes data calls one of these. proxy.ts only redirects signed-out visitors and is never relied on.
+
+export type CurrentUser = {
+  id: string;
+  email: string;
+  name: string;
+  roles: Role[];
+  departmentId: string | null;
+};
+
+/**
+ * The signed-in user, read from the database on every request (cached for the request), so that a
+ * disabled account, a changed role or a bumped session version takes effect on the next request.
+ */
+export const getCurrentUser = cache(async (): Promise<CurrentUser | null> => {
+  const session = await auth();
+  const id = session?.user?.id;
+  if (!id || !/^[0-9a-f-]{36}$/i.test(id)) return null;
+  const sessionVersion = session?.sv;
+  const [row] = await db
+    .select({
+      id: users.id,
+      email: users.email,
+      name: users.name,
+      roles: users.roles,
+      departmentId: users.departmentId,
+      sessionVersion: users.sessionVersion,
+      disabledAt: users.disabledAt,
+    })
+    .from(users)
+    .where(eq(users.id, id))
+    .limit(1);
+  if (!row || row.disabledAt) return null;
+  if (sessionVersion !== row.sessionVersion) return null;
+  return { id: row.id, email: row.email, name: row.name, roles: row.roles, departmentId: row.departmentId };
+});
+
+export function can(user: Pick<CurrentUser, "roles"> | null, permission: Permission): boolean {
+  return Boolean(user && rolesHave(user.roles, permission));
+}
+
+export async function requireUser(): Promise<CurrentUser> {
+  const user = await getCurrentUser();
+  if (!user) throw unauthenticated();
+  return user;
+}
+
+export async function requirePermission(permission: Permission): Promise<CurrentUser> {
+  const user = await requireUser();
+  if (!can(user, permission)) throw forbidden();
+  return user;
+}
+
+/** For pages: signed-out visitors go to the sign-in page; a missing permission shows a 403 page. */
+export async function requirePageUser(permission?: Permission, from?: string): Promise<CurrentUser> {
+  const user = await getCurrentUser();
+  if (!user) redirect(from ? `/sign-in?from=${encodeURIComponent(from)}` : "/sign-in");
+  if (permission && !can(user, permission)) redirect("/forbidden");
+  return user;
+}
+
+export function assertCan(user: CurrentUser, permission: Permission, message?: string): void {
+  if (!can(user, permission)) throw forbidden(message);
+}
+
+export { AppError };

@@ -1,0 +1,40 @@
+import type { Role } from "@/db/schema/users";
+
+// The one table that maps permissions to roles. Business code asks for a permission, never a role
+// name. Record-level rules (own application, own department, separation of duties) live in
+// lib/auth/guards.ts and the domain modules, on top of this table.
+
+export const PERMISSIONS = {
+  "hazard.assess": ["instructor", "reviewer", "safety_officer", "admin"],
+  "apparatus.read": ["instructor", "reviewer", "safety_officer", "admin"],
+  "apparatus.write": ["instructor", "reviewer", "safety_officer"],
+  "application.create": ["instructor", "reviewer", "safety_officer"],
+  "application.submit": ["instructor", "reviewer", "safety_officer"],
+  "application.withdraw": ["instructor", "reviewer", "safety_officer"],
+  // Reviewers review their own department's applications; officers review any.
+  "application.review": ["reviewer", "safety_officer"],
+  "application.review.any": ["safety_officer"],
+  "application.read.any": ["safety_officer"],
+  "permit.approve": ["safety_officer"],
+  "permit.reject": ["safety_officer"],
+  "permit.revoke": ["safety_officer"],
+  "permit.read.any": ["safety_officer"],
+  "audit.export": ["safety_officer"],
+  "admin.users": ["admin"],
+  "admin.rules": ["admin"],
+  "dev.mail": ["admin"],
+} as const satisfies Record<string, readonly Role[]>;
+
+export type Permission = keyof typeof PERMISSIONS;
+
+export function rolesHave(roles: readonly Role[], permission: Permission): boolean {
+  const allowed: readonly Role[] = PERMISSIONS[permission];
+  return roles.some((role) => allowed.includes(role));
+}
+
+export const ROLE_LABELS: Record<Role, string> = {
+  instructor: "Instructor",
+  reviewer: "Reviewer",
+  safety_officer: "Safety officer",
+  admin: "Admin",
+};

@@ -1,0 +1,70 @@
+import { ZodError } from "zod";
+
+// One error type for everything a handler refuses on purpose, with a code → status table. The route
+// wrapper (lib/http/route.ts) turns these, and zod errors, into JSON answers; anything else is a 500
+// with no detail from the database or the stack in the response.
+
+export const ERROR_STATUS = {
+  bad_request: 400,
+  unauthenticated: 401,
+  forbidden: 403,
+  not_found: 404,
+  conflict: 409,
+  unsupported_media_type: 415,
+  payload_too_large: 413,
+  invalid: 422,
+  rate_limited: 429,
+} as const;
+
+export type ErrorCode = keyof typeof ERROR_STATUS;
+
+export type FieldIssue = { path: string; message: string };
+
+export class AppError extends Error {
+  constructor(
+    readonly code: ErrorCode,
+    message: string,
+    readonly details: { issues?: FieldIssue[]; retryAfterSeconds?: number } = {},
+  ) {
+    super(message);
+    this.name = "AppError";
+  }
+  get status(): number {
+    return ERROR_STATUS[this.code];
+  }
+}
+
+export const unauthenticated = () => new AppError("unauthenticated", "Sign in to continue.");
+export const forbidden = (message = "You do not have permission to do this.") => new AppError("forbidden", message);
+export const notFound = (what = "That record") => new AppError("not_found", `${what} was not found.`);
+export const conflict = (message: string) => new AppError("conflict", message);
+
+/** Renders a zod path like ["sources", 0, "capacitance_F"] as "sources[0].capacitance_F". */
+export function formatPath(path: readonly PropertyKey[]): string {
+  let out = "";
+  for (const part of path) {
+    if (typeof part === "number") out += `[${part}]`;
+    else out += out ? `.${String(part)}` : String(part);
+  }
+  return out || "(body)";
+}
+
+export function fromZodError(error: ZodError, where = ""): AppError {
+  const issues = error.issues.map((issue) => ({
+    path: formatPath([...(where ? [where] : []), ...issue.path]),
+    message: issue.message,
+  }));
+  const first = issues[0];
+  const summary = first ? `${first.path}: ${first.message}` : "The input is not valid.";
+  return new AppError("invalid", summary, { issues });
+}
+
+export function errorBody(error: AppError) {
+  return {
+    error: {
+      code: error.code,
+      message: error.message,
+      ...(error.details.issues ? { issues: error.details.issues } : {}),
+    },
+  };
+}

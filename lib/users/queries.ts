@@ -1,0 +1,50 @@
+import "server-only";
+import { asc, desc, eq, sql } from "drizzle-orm";
+import { db } from "@/db";
+import { departments, invitations, users } from "@/db/schema";
+import { assertCan, type CurrentUser } from "@/lib/auth/guards";
+
+// Reads for the admin screens. Columns are listed explicitly: a password hash is never selected.
+
+export async function listDepartments() {
+  return db
+    .select({ id: departments.id, name: departments.name, code: departments.code })
+    .from(departments)
+    .orderBy(asc(departments.name));
+}
+
+export async function listUsers(actor: CurrentUser) {
+  assertCan(actor, "admin.users");
+  return db
+    .select({
+      id: users.id,
+      email: users.email,
+      name: users.name,
+      roles: users.roles,
+      departmentId: users.departmentId,
+      departmentName: departments.name,
+      disabledAt: users.disabledAt,
+      lastSignInAt: users.lastSignInAt,
+      hasPassword: sql<boolean>`${users.passwordHash} IS NOT NULL`,
+      createdAt: users.createdAt,
+    })
+    .from(users)
+    .leftJoin(departments, eq(departments.id, users.departmentId))
+    .orderBy(asc(users.name));
+}
+
+export async function listPendingInvitations(actor: CurrentUser) {
+  assertCan(actor, "admin.users");
+  return db
+    .select({
+      id: invitations.id,
+      email: invitations.email,
+      name: invitations.name,
+      roles: invitations.roles,
+      expiresAt: invitations.expiresAt,
+      createdAt: invitations.createdAt,
+    })
+    .from(invitations)
+    .where(sql`${invitations.usedAt} IS NULL AND ${invitations.revokedAt} IS NULL AND ${invitations.expiresAt} > now()`)
+    .orderBy(desc(invitations.createdAt));
+}

@@ -1,0 +1,63 @@
+#!/usr/bin/env node
+// `npm run dev`: PostgreSQL, migrations and seed as for `npm start`, then `next dev` with hot reload
+// on http://localhost:3000 and the mail catcher. Ctrl-C stops what it started.
+import {
+  bin,
+  databaseUrl,
+  ensureDatabase,
+  ensureNodeModules,
+  fail,
+  localEnv,
+  pgUp,
+  registerUser,
+  releasePg,
+  requireFreePort,
+  run,
+  startChild,
+  step,
+  stopAllChildren,
+} from "./lib/services.mjs";
+
+const PORT = Number(process.env.PORT ?? 3000);
+const MAIL_PORT = Number(process.env.SMTP_PORT ?? 1025);
+
+try {
+  ensureNodeModules();
+  const local = localEnv();
+  registerUser();
+  await pgUp(local);
+  ensureDatabase(local, "arcwarden");
+  const env = {
+    ...process.env,
+    ...local,
+    NODE_ENV: "development",
+    DATABASE_URL: local.DATABASE_URL ?? databaseUrl(local, "arcwarden"),
+    APP_URL: `http://localhost:${PORT}`,
+    AUTH_TRUST_HOST: "true",
+    SMTP_PORT: String(MAIL_PORT),
+    NEXT_TELEMETRY_DISABLED: "1",
+  };
+  run(bin("tsx"), ["db/migrate.ts"], { env });
+  run(bin("tsx"), ["db/seed.ts"], { env });
+  await requireFreePort(PORT, "the dev server", "PORT");
+  await requireFreePort(MAIL_PORT, "the mail catcher", "SMTP_PORT");
+  startChild("mail catcher", bin("tsx"), ["scripts/mail-catcher.ts"], {
+    env: { ...env, CATCHER_PORT: String(MAIL_PORT) },
+  });
+  step(`next dev on http://localhost:${PORT}`);
+  const server = startChild("dev server", bin("next"), ["dev", "-p", String(PORT)], {
+    env: { ...env, WORKER_IN_APP: local.WORKER_IN_APP ?? "true" },
+  });
+  const stop = async () => {
+    await stopAllChildren();
+    releasePg();
+    process.exit(0);
+  };
+  process.on("SIGINT", stop);
+  process.on("SIGTERM", stop);
+  server.on("exit", stop);
+} catch (error) {
+  await stopAllChildren();
+  releasePg();
+  fail(error);
+}

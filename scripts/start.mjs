@@ -1,0 +1,99 @@
+#!/usr/bin/env node
+// `npm start`: install what is missing, start PostgreSQL, migrate, seed the demo data once, build when
+// stale, then serve on http://localhost:3000 with the mail catcher and the job worker. Ctrl-C stops
+// what it started.
+import {
+  bin,
+  databaseUrl,
+  ensureBuild,
+  ensureDatabase,
+  ensureNodeModules,
+  fail,
+  info,
+  localEnv,
+  pgUp,
+  registerUser,
+  releasePg,
+  requireFreePort,
+  run,
+  startChild,
+  step,
+  stopAllChildren,
+  waitForHttp,
+} from "./lib/services.mjs";
+import fs from "node:fs";
+import path from "node:path";
+import { dataDir } from "./lib/services.mjs";
+
+const PORT = Number(process.env.PORT ?? 3000);
+const MAIL_PORT = Number(process.env.SMTP_PORT ?? 1025);
+const pidFile = path.join(dataDir, "run", "next-start.pid");
+
+let shuttingDown = false;
+async function shutdown(code = 0) {
+  if (shuttingDown) return;
+  shuttingDown = true;
+  console.log("");
+  step("Stopping the app, the mail catcher and the worker");
+  await stopAllChildren();
+  fs.rmSync(pidFile, { force: true });
+  releasePg();
+  process.exit(code);
+}
+
+async function main() {
+  ensureNodeModules();
+  const local = localEnv();
+  registerUser();
+  process.on("SIGINT", () => shutdown(0));
+  process.on("SIGTERM", () => shutdown(0));
+
+  await pgUp(local);
+  ensureDatabase(local, "arcwarden");
+  const appEnv = {
+    ...process.env,
+    ...local,
+    DATABASE_URL: local.DATABASE_URL ?? databaseUrl(local, "arcwarden"),
+    APP_URL: local.APP_URL ?? `http://localhost:${PORT}`,
+    AUTH_URL: local.AUTH_URL ?? local.APP_URL ?? `http://localhost:${PORT}`,
+    AUTH_TRUST_HOST: "true",
+    SMTP_PORT: String(MAIL_PORT),
+    LOG_INVITATION_LINKS: local.LOG_INVITATION_LINKS ?? "1",
+    NEXT_TELEMETRY_DISABLED: "1",
+  };
+
+  step("Applying database migrations");
+  run(bin("tsx"), ["db/migrate.ts"], { env: { ...appEnv, NODE_ENV: "development" } });
+  step("Seeding demo data (skipped where it is already there)");
+  run(bin("tsx"), ["db/seed.ts"], { env: { ...appEnv, NODE_ENV: "development" } });
+
+  ensureBuild(appEnv);
+
+  await requireFreePort(PORT, "the web server", "PORT");
+  await requireFreePort(MAIL_PORT, "the mail catcher", "SMTP_PORT");
+
+  step(`Starting the mail catcher on 127.0.0.1:${MAIL_PORT}`);
+  const catcher = startChild("mail catcher", bin("tsx"), ["scripts/mail-catcher.ts"], {
+    env: { ...appEnv, NODE_ENV: "development", CATCHER_PORT: String(MAIL_PORT) },
+  });
+  catcher.on("exit", (code) => !shuttingDown && (console.error(`mail catcher exited (${code})`), shutdown(1)));
+
+  step(`Starting Arcwarden on http://localhost:${PORT}`);
+  const server = startChild("web server", bin("next"), ["start", "-p", String(PORT), "-H", "127.0.0.1"], {
+    env: { ...appEnv, NODE_ENV: "production", WORKER_IN_APP: local.WORKER_IN_APP ?? "true" },
+  });
+  fs.writeFileSync(pidFile, String(server.pid));
+  server.on("exit", (code) => !shuttingDown && (console.error(`web server exited (${code})`), shutdown(1)));
+  await waitForHttp(`http://127.0.0.1:${PORT}/sign-in`, { child: server });
+
+  console.log("");
+  step(`Arcwarden is ready: http://localhost:${PORT}`);
+  info("Demo sign-ins (password arcwarden-demo-2026): instructor@, reviewer@, officer@, admin@arcwarden.test");
+  info(`Caught e-mail: http://localhost:${PORT}/dev/mail (as admin). Press Ctrl-C to stop.`);
+}
+
+main().catch(async (error) => {
+  await stopAllChildren();
+  releasePg();
+  fail(error);
+});

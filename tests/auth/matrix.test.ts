@@ -1,0 +1,112 @@
+import fs from "node:fs";
+import path from "node:path";
+import { eq } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+import { getDb } from "@/db";
+import { users } from "@/db/schema";
+import { createRoleSet, createUser, requireDatabase, uniq } from "../support/db";
+import { http, signIn } from "../support/http";
+import { MATRIX, type Expectation, type MatrixContext, type MatrixRow, type Principal } from "./matrix";
+
+requireDatabase();
+
+const PRINCIPALS: Principal[] = ["anonymous", "instructor", "reviewer", "safety_officer", "admin"];
+
+/** Every route handler method and page in app/, as "METHOD /route". */
+function discoverRoutes(): string[] {
+  const found: string[] = [];
+  const walk = (dir: string) => {
+    for (const entry of fs.readdirSync(dir, { withFileTypes: true })) {
+      const full = path.join(dir, entry.name);
+      if (entry.isDirectory()) walk(full);
+      else if (entry.name === "route.ts" || entry.name === "page.tsx") {
+        const segments = path
+          .relative("app", path.dirname(full))
+          .split(path.sep)
+          .filter((s) => s && !/^\(.*\)$/.test(s) && !s.startsWith("_"));
+        const route = "/" + segments.join("/");
+        if (entry.name === "page.tsx") found.push(`PAGE ${route}`);
+        else {
+          const source = fs.readFileSync(full, "utf8");
+          for (const m of source.matchAll(/export (?:const|async function) (GET|POST|PUT|PATCH|DELETE)\b/g)) {
+            found.push(`${m[1]} ${route}`);
+          }
+        }
+      }
+    }
+  };
+  walk("app");
+  return found.sort();
+}
+
+function matches(status: number, location: string | null, expected: Expectation): boolean {
+  if (typeof expected === "number") return status === expected;
+  const target = expected.slice(1);
+  if (![302, 303, 307, 308].includes(status) || !location) return false;
+  const pathname = new URL(location, "http://x").pathname;
+  return target === "/" ? pathname === "/" : pathname.startsWith(target);
+}
+
+describe("authorization matrix", () => {
+  const cookies: Partial<Record<Principal | "disabled", string>> = {};
+  let roleUsers: MatrixContext["users"];
+
+  beforeAll(async () => {
+    const set = await createRoleSet();
+    roleUsers = {
+      instructor: set.instructor,
+      reviewer: set.reviewer,
+      safety_officer: set.safety_officer,
+      admin: set.admin,
+    };
+    for (const role of ["instructor", "reviewer", "safety_officer", "admin"] as const) {
+      cookies[role] = await signIn(set[role].email);
+    }
+    // A user who signed in and was then disabled: the token is still cryptographically valid.
+    const disabled = await createUser({ roles: ["instructor", "reviewer", "safety_officer", "admin"] });
+    cookies.disabled = await signIn(disabled.email);
+    await getDb().update(users).set({ disabledAt: new Date() }).where(eq(users.id, disabled.id));
+  });
+
+  it("has a row for every route handler method and page, and no row for a route that is gone", () => {
+    const routes = discoverRoutes();
+    const rows = new Set(MATRIX.map((r) => `${r.method} ${r.route}`));
+    expect(
+      routes.filter((r) => !rows.has(r)),
+      "routes without a matrix row",
+    ).toEqual([]);
+    expect(
+      [...rows].filter((r) => !routes.includes(r)),
+      "matrix rows without a route",
+    ).toEqual([]);
+  });
+
+  const cells = (row: MatrixRow) => [
+    ...PRINCIPALS.map((p) => [p, row.expect[p]] as const),
+    // A disabled user's live token gets what an anonymous visitor gets.
+    ["disabled", row.expect.anonymous] as const,
+  ];
+
+  for (const row of MATRIX) {
+    describe(`${row.method} ${row.route}`, () => {
+      for (const [principal, expected] of cells(row)) {
+        it(`${principal} → ${expected}`, async () => {
+          const target = await createUser({ roles: ["instructor"] });
+          const ctx: MatrixContext = { targetUserId: target.id, unique: uniq("matrix"), users: roleUsers, data: {} };
+          if (row.prepare) ctx.data = await row.prepare(ctx);
+          const url = row.path ? row.path(ctx) : row.route;
+          const res = await http(url, {
+            method: row.method === "PAGE" ? "GET" : row.method,
+            cookie: principal === "anonymous" ? undefined : cookies[principal],
+            body: row.body?.(ctx),
+          });
+          const ok = matches(res.status, res.headers.get("location"), expected);
+          expect(
+            ok,
+            `${row.method} ${url} as ${principal}: got ${res.status} ${res.headers.get("location") ?? ""} ${res.text.slice(0, 200)}`,
+          ).toBe(true);
+        });
+      }
+    });
+  }
+});

@@ -1,0 +1,60 @@
+// Test fixtures in the real test database (scripts/test.mjs creates it fresh and migrates it).
+import crypto from "node:crypto";
+import { getDb } from "@/db";
+import { departments, users, type Role } from "@/db/schema";
+import { hashPassword } from "@/lib/auth/password";
+
+export const TEST_PASSWORD = "correct horse battery staple 42";
+let passwordHash: Promise<string> | undefined;
+
+export function requireDatabase(): void {
+  if (!process.env.DATABASE_URL) {
+    throw new Error("DATABASE_URL is not set: run the tests with `npm test`, which starts PostgreSQL.");
+  }
+}
+
+export function uniq(prefix = "t"): string {
+  return `${prefix}-${crypto.randomBytes(5).toString("hex")}`;
+}
+
+export async function createDepartment(name = uniq("Dept")) {
+  const [row] = await getDb()
+    .insert(departments)
+    .values({ name, code: name.toUpperCase().slice(0, 12) })
+    .returning();
+  return row;
+}
+
+export async function createUser(options: {
+  roles: Role[];
+  departmentId?: string | null;
+  name?: string;
+  email?: string;
+}) {
+  passwordHash ??= hashPassword(TEST_PASSWORD);
+  const tag = uniq(options.roles.join("+"));
+  const [row] = await getDb()
+    .insert(users)
+    .values({
+      email: options.email ?? `${tag}@example.test`,
+      name: options.name ?? `Test ${tag}`,
+      roles: options.roles,
+      departmentId: options.departmentId ?? null,
+      passwordHash: await passwordHash,
+    })
+    .returning();
+  return row;
+}
+
+/** One user per role in one department, plus a second department for cross-department checks. */
+export async function createRoleSet() {
+  const dept = await createDepartment();
+  const otherDept = await createDepartment();
+  const [instructor, reviewer, officer, admin] = await Promise.all([
+    createUser({ roles: ["instructor"], departmentId: dept.id }),
+    createUser({ roles: ["reviewer"], departmentId: dept.id }),
+    createUser({ roles: ["safety_officer"], departmentId: otherDept.id }),
+    createUser({ roles: ["admin"], departmentId: otherDept.id }),
+  ]);
+  return { dept, otherDept, instructor, reviewer, safety_officer: officer, admin };
+}
