@@ -192,3 +192,14 @@ export async function changePassword(actor: CurrentUser, currentPassword: string
     await writeAudit(tx, { actor, action: "user.password_changed", entityType: "user", entityId: actor.id });
   });
 }
+
+/**
+ * Ends every session of a user at once (sign-out). Session tokens are stateless, so bumping the
+ * version is what makes a copied or re-sent token useless on the next request.
+ */
+export async function endSessions(userId: string): Promise<void> {
+  await db
+    .update(users)
+    .set({ sessionVersion: sql`${users.sessionVersion} + 1` })
+    .where(eq(users.id, userId));
+}

@@ -30,6 +30,8 @@ export type MatrixRow = {
   path?: (ctx: MatrixContext) => string;
   body?: (ctx: MatrixContext) => unknown;
   expect: Record<Principal, Expectation>;
+  /** The request ends the caller's sessions (sign-out): sign in a fresh user of the role for each cell. */
+  freshSession?: boolean;
 };
 
 export const everyone = (value: Expectation): Record<Principal, Expectation> => ({

@@ -95,9 +95,14 @@ describe("authorization matrix", () => {
           const ctx: MatrixContext = { targetUserId: target.id, unique: uniq("matrix"), users: roleUsers, data: {} };
           if (row.prepare) ctx.data = await row.prepare(ctx);
           const url = row.path ? row.path(ctx) : row.route;
+          let cookie = principal === "anonymous" ? undefined : cookies[principal];
+          if (row.freshSession && principal !== "anonymous" && principal !== "disabled") {
+            const fresh = await createUser({ roles: [principal], departmentId: roleUsers[principal].departmentId });
+            cookie = await signIn(fresh.email);
+          }
           const res = await http(url, {
             method: row.method === "PAGE" ? "GET" : row.method,
-            cookie: principal === "anonymous" ? undefined : cookies[principal],
+            cookie,
             body: row.body?.(ctx),
           });
           const ok = matches(res.status, res.headers.get("location"), expected);

@@ -175,5 +175,7 @@ describe("sessions follow the database", () => {
     const cleared = out.headers.getSetCookie().filter((c) => c.startsWith("authjs.session-token="));
     expect(cleared).toHaveLength(1);
     expect(cleared[0]).toMatch(/authjs\.session-token=;|Max-Age=0|Expires=Thu, 01 Jan 1970/);
+    // The old token is dead on the server too, even if a client keeps sending it.
+    expect((await http("/api/admin/users", { cookie })).status).toBe(401);
   });
 });

@@ -1,10 +1,11 @@
 // POST /api/session — sign in with e-mail and password (JSON); 401 for any wrong pair, 429 with
-// Retry-After when throttled. DELETE /api/session — sign out.
+// Retry-After when throttled. DELETE /api/session — sign out (every session of the user).
 import { AuthError } from "next-auth";
 import { signIn, signOut } from "@/auth";
 import { checkThrottle, clientIp } from "@/lib/auth/throttle";
 import { AppError } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
+import { endSessions } from "@/lib/users/actions";
 import { signInSchema } from "@/lib/validation/auth";
 
 const WRONG = "That e-mail and password do not match an active account.";
@@ -34,7 +35,10 @@ export const POST = route({ access: "public", body: signInSchema }, async ({ req
   return { ok: true, redirectTo: body.from };
 });
 
-export const DELETE = route({ access: "public" }, async () => {
+// Signing out ends all of the user's sessions (their tokens carry the old session version), so a
+// token re-sent by a request still in flight when the cookie was cleared is refused too.
+export const DELETE = route({ access: "public" }, async ({ user }) => {
+  if (user) await endSessions(user.id);
   await signOut({ redirect: false });
   return { ok: true };
 });

@@ -9,7 +9,7 @@ export const ACCOUNT_ROWS: MatrixRow[] = [
     body: (c) => ({ email: `${c.unique}@example.test`, password: "wrong password" }),
     expect: everyone(401),
   },
-  { route: "/api/session", method: "DELETE", expect: everyone(200) },
+  { route: "/api/session", method: "DELETE", expect: everyone(200), freshSession: true },
   {
     route: "/api/invitations/accept",
     method: "POST",
