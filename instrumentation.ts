@@ -1,7 +1,25 @@
 // Runs once when a server instance starts: validate the environment so a misconfigured deployment
-// fails at start-up with the variable's name, not on the first request.
+// fails at start-up with the variable's name, not on the first request; then, when WORKER_IN_APP is
+// set (the default of `npm start`), start the job worker (mail outbox, daily permit job) in this
+// process. Never during `next build`, and never in the edge runtime.
 export async function register() {
   if (process.env.NEXT_RUNTIME !== "nodejs") return;
   const { env } = await import("@/lib/env");
-  env();
+  const config = env();
+  if (!config.WORKER_IN_APP || process.env.NEXT_PHASE === "phase-production-build") return;
+  const { startWorkerOnce } = await import("@/lib/jobs/worker");
+  // The web server keeps serving when the worker cannot start (the database is still coming up):
+  // mail waits in the outbox, and the start is tried again with a growing delay (5 s up to 5 min).
+  const start = (retryMs: number) => {
+    startWorkerOnce()
+      .then(() => console.log("[worker] started in the web server process"))
+      .catch((error) => {
+        console.error(
+          `[worker] could not start, retrying in ${retryMs / 1000} s:`,
+          error instanceof Error ? error.message : error,
+        );
+        setTimeout(() => start(Math.min(retryMs * 2, 300_000)), retryMs).unref();
+      });
+  };
+  start(5_000);
 }

@@ -1,10 +1,12 @@
-// Demo data for the fictional Aldermere Institute of Technology: two departments and one user per
-// role, each with the demo password printed in the README. Idempotent: re-running adds only what is
-// missing. Refuses to run with NODE_ENV=production unless SEED_ALLOW_PRODUCTION=1.
+// Demo data for the fictional Aldermere Institute of Technology: two departments, one user per role
+// (the demo password is printed in the README), the institution's settings, and the demo story
+// (db/seed-story.ts: apparatus of every tier, applications in every state, permits). Idempotent:
+// re-running adds only what is missing. Refuses NODE_ENV=production unless SEED_ALLOW_PRODUCTION=1.
+import "@/lib/jobs/standalone";
 import { hashPassword } from "@/lib/auth/password";
 import { loadLocalEnv } from "@/scripts/lib/load-env";
 import { closeDb, getDb } from "./index";
-import { departments, users, type Role } from "./schema";
+import { departments, institutionSettings, users, type Role } from "./schema";
 
 export const DEMO_PASSWORD = "arcwarden-demo-2026";
 export const INSTITUTION_NAME = "Aldermere Institute of Technology";
@@ -48,7 +50,26 @@ export async function seed(): Promise<void> {
       )
       .onConflictDoNothing();
   }
-  console.log(`  demo data: ${DEMO_DEPARTMENTS.length} departments, ${missing.length} user(s) added`);
+  await db
+    .insert(institutionSettings)
+    .values({
+      id: 1,
+      name: INSTITUTION_NAME,
+      timeZone: "UTC",
+      emergencyContacts: [
+        { label: "Emergency services", phone: "112" },
+        { label: "Campus security (24 h)", phone: "+1 555 0100" },
+        { label: "Safety office", phone: "+1 555 0142" },
+      ],
+    })
+    .onConflictDoNothing();
+
+  // The story goes through server modules; they load only after lib/jobs/standalone is registered.
+  const { seedStory } = await import("./seed-story");
+  const told = await seedStory(DEMO_PASSWORD);
+  console.log(
+    `  demo data: ${DEMO_DEPARTMENTS.length} departments, ${missing.length} user(s) added, story ${told ? "added" : "already there"}`,
+  );
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {

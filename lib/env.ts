@@ -36,6 +36,8 @@ export const envSchema = z
     S3_FORCE_PATH_STYLE: bool,
     WORKER_IN_APP: bool,
     LOG_INVITATION_LINKS: bool,
+    // Where the local mail catcher keeps messages (read by /dev/mail).
+    MAIL_CATCHER_DIR: z.string().min(1).default(".data/mail"),
   })
   .superRefine((value, ctx) => {
     if (value.STORAGE_DRIVER === "s3" && !value.S3_BUCKET) {

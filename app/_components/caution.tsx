@@ -1,15 +1,9 @@
 import { cx } from "./cx";
 
-// The standard caution: on every result screen, every permit and in the footer. Keep the three
-// points (an estimate; codes, rules and a qualified person govern; de-energise and ground) together.
+import { CAUTION_POINTS, CAUTION_TEXT } from "@/lib/caution";
 
-export const CAUTION_POINTS = [
-  "The figures are an engineering estimate.",
-  "Local codes, your institution’s rules and a qualified person’s judgement govern.",
-  "De-energise and ground a set-up before anyone touches it.",
-] as const;
-
-export const CAUTION_TEXT = CAUTION_POINTS.join(" ");
+// The standard caution on screen; the wording lives in lib/caution.ts (shared with PDFs and e-mails).
+export { CAUTION_POINTS, CAUTION_TEXT };
 
 type CautionProps = { variant?: "full" | "compact"; className?: string };
 

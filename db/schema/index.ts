@@ -8,3 +8,4 @@ export * from "./apparatus";
 export * from "./applications";
 export * from "./review";
 export * from "./permits";
+export * from "./ratelimit";

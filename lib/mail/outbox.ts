@@ -1,42 +1,26 @@
 import "server-only";
 import { mailOutbox } from "@/db/schema";
 import type { DbOrTx } from "@/lib/audit";
+import { headerText } from "./headers";
 
 // Every e-mail Arcwarden sends, as data. Callers queue a message in the same transaction as the
-// event that causes it; the worker renders the body from `kind` and `data` and sends it. A
-// `dedupeKey` makes a message unique: queuing it twice is a no-op.
+// event that causes it; the outbox worker (lib/mail/actions.ts, run by lib/jobs/worker.ts) renders
+// the body from `kind` and `data` (emails/*.tsx) and sends it. A `dedupeKey` makes a message unique
+// per recipient (mail_outbox.dedupe_key is UNIQUE): queuing it twice is a no-op.
 
 export type MailMessage =
-  | {
-      kind: "invitation";
-      data: { name: string; invitedBy: string; url: string; expiresAt: string };
-    }
+  | { kind: "invitation"; data: { name: string; invitedBy: string; url: string; expiresAt: string } }
   | {
       kind: "application_submitted";
-      data: {
-        applicationId: string;
-        title: string;
-        applicantName: string;
-        tier: number;
-      };
+      data: { applicationId: string; title: string; applicantName: string; tier: number; departmentName?: string };
     }
   | {
       kind: "application_returned";
-      data: {
-        applicationId: string;
-        title: string;
-        reviewerName: string;
-        comment: string;
-      };
+      data: { applicationId: string; title: string; reviewerName: string; comment: string; pinnedTo?: string | null };
     }
   | {
       kind: "application_recommended";
-      data: {
-        applicationId: string;
-        title: string;
-        reviewerName: string;
-        tier: number;
-      };
+      data: { applicationId: string; title: string; reviewerName: string; tier: number };
     }
   | {
       kind: "application_approved";
@@ -47,16 +31,15 @@ export type MailMessage =
         title: string;
         validFrom: string;
         validTo: string;
+        tier?: number;
+        room?: string;
+        conditions?: string[];
+        signerName?: string;
       };
     }
   | {
       kind: "application_rejected";
-      data: {
-        applicationId: string;
-        title: string;
-        signerName: string;
-        comment: string;
-      };
+      data: { applicationId: string; title: string; signerName: string; comment: string };
     }
   | {
       kind: "permit_revoked";
@@ -66,6 +49,7 @@ export type MailMessage =
         title: string;
         reason: string;
         signerName: string;
+        revokedAt?: string;
       };
     }
   | {
@@ -75,13 +59,22 @@ export type MailMessage =
         permitNumber: string;
         title: string;
         validTo: string;
+        /** Days until the permit expires (the end of validTo): 1 on its last valid day, 0 once expired. */
         daysLeft: number;
+        /** Why this recipient gets it: the holder, or the reviewer who signed (on expiry). */
+        recipient?: "holder" | "reviewer";
+        holderName?: string;
       };
     };
 
 export type MailKind = MailMessage["kind"];
 
+/** The subject line, flattened to one line (titles are user input: no CR/LF reaches a header). */
 export function defaultSubject(message: MailMessage): string {
+  return headerText(subjectFor(message));
+}
+
+function subjectFor(message: MailMessage): string {
   switch (message.kind) {
     case "invitation":
       return "You are invited to Arcwarden";
@@ -98,9 +91,9 @@ export function defaultSubject(message: MailMessage): string {
     case "permit_revoked":
       return `Permit ${message.data.permitNumber} revoked`;
     case "permit_reminder":
-      return message.data.daysLeft > 0
-        ? `Permit ${message.data.permitNumber} ends in ${message.data.daysLeft} day${message.data.daysLeft === 1 ? "" : "s"}`
-        : `Permit ${message.data.permitNumber} has expired`;
+      if (message.data.daysLeft <= 0) return `Permit ${message.data.permitNumber} has expired`;
+      if (message.data.daysLeft === 1) return `Permit ${message.data.permitNumber}: last valid day today`;
+      return `Permit ${message.data.permitNumber}: ${message.data.daysLeft} days left`;
   }
 }
 
@@ -111,7 +104,9 @@ export async function queueMail(
   message: MailMessage,
   options: { dedupeKey?: string } = {},
 ): Promise<number> {
-  const recipients = [...new Set(typeof to === "string" ? [to] : to)].filter(Boolean);
+  // One row per mailbox: addresses differing only in case are the same recipient.
+  const list = (typeof to === "string" ? [to] : to).map((a) => a.trim()).filter(Boolean);
+  const recipients = [...new Map(list.map((a) => [a.toLowerCase(), a])).values()];
   if (recipients.length === 0) return 0;
   const rows = await tx
     .insert(mailOutbox)

@@ -48,3 +48,21 @@ export async function listPendingInvitations(actor: CurrentUser) {
     .where(sql`${invitations.usedAt} IS NULL AND ${invitations.revokedAt} IS NULL AND ${invitations.expiresAt} > now()`)
     .orderBy(desc(invitations.createdAt));
 }
+
+/** Counts for the admin's dashboard card. */
+export async function adminOverview(actor: CurrentUser) {
+  assertCan(actor, "admin.users");
+  const [row] = await db
+    .select({
+      activeUsers: sql<number>`count(*) FILTER (WHERE ${users.disabledAt} IS NULL)::int`,
+      disabledUsers: sql<number>`count(*) FILTER (WHERE ${users.disabledAt} IS NOT NULL)::int`,
+    })
+    .from(users);
+  const [inv] = await db
+    .select({ n: sql<number>`count(*)::int` })
+    .from(invitations)
+    .where(
+      sql`${invitations.usedAt} IS NULL AND ${invitations.revokedAt} IS NULL AND ${invitations.expiresAt} > now()`,
+    );
+  return { activeUsers: row?.activeUsers ?? 0, disabledUsers: row?.disabledUsers ?? 0, openInvitations: inv?.n ?? 0 };
+}

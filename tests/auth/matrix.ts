@@ -2,7 +2,11 @@
 // the expected answer (the vocabulary is in matrix-kit.ts). One file of rows per area, so areas grow
 // without touching each other's rows. tests/auth/matrix.test.ts runs them.
 import { ACCOUNT_ROWS } from "./matrix-rows/accounts";
+import { APPLICATION_ROWS } from "./matrix-rows/applications";
+import { MAIL_ROWS } from "./matrix-rows/mail";
+import { PDF_VERIFY_ROWS } from "./matrix-rows/pdf-verify";
+import { REVIEW_ROWS } from "./matrix-rows/review";
 
 export type { MatrixRow, Principal, Expectation, MatrixContext } from "./matrix-kit";
 
-export const MATRIX = [...ACCOUNT_ROWS];
+export const MATRIX = [...ACCOUNT_ROWS, ...APPLICATION_ROWS, ...MAIL_ROWS, ...PDF_VERIFY_ROWS, ...REVIEW_ROWS];

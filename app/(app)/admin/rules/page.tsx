@@ -1,0 +1,102 @@
+import type { Metadata } from "next";
+import { Card } from "@/app/_components/card";
+import { formatDateTime } from "@/app/_components/format";
+import { PageHeader } from "@/app/_components/page-header";
+import { requirePageUser } from "@/lib/auth/guards";
+import { describeChain } from "@/lib/rules/chain";
+import {
+  currentChainRules,
+  currentReminderRules,
+  currentTierRuleSet,
+  listRuleSets,
+  type RuleSetHistoryRow,
+} from "@/lib/rules/queries";
+import { ChainRulesForm, ReminderForm, TierRulesForm } from "./rules-forms";
+
+export const metadata: Metadata = { title: "Rules" };
+
+function History({ rows, builtIn }: { rows: RuleSetHistoryRow[]; builtIn: string }) {
+  return (
+    <ol className="flex flex-col gap-1.5 text-sm">
+      {rows.map((r) => (
+        <li key={r.id}>
+          <span className="font-medium text-stone-900">Version {r.version}</span>
+          <span className="text-stone-600">
+            {" "}
+            · {formatDateTime(r.createdAt)} · {r.createdByName ?? "system"}
+          </span>
+          {r.note && <span className="block text-stone-700">{r.note}</span>}
+        </li>
+      ))}
+      <li>
+        <span className="font-medium text-stone-900">Version 0</span>
+        <span className="text-stone-600"> · {builtIn}</span>
+      </li>
+    </ol>
+  );
+}
+
+export default async function AdminRulesPage() {
+  await requirePageUser("admin.rules", "/admin/rules");
+  const [chain, tier, reminders, chainHistory, tierHistory, reminderHistory] = await Promise.all([
+    currentChainRules(),
+    currentTierRuleSet(),
+    currentReminderRules(),
+    listRuleSets("chain"),
+    listRuleSets("tier"),
+    listRuleSets("reminders"),
+  ]);
+  return (
+    <>
+      <PageHeader
+        title="Rules"
+        description="Who reviews each tier, how long its permits last, the engine's tier thresholds and the reminder schedule. Each change is a new version; an application keeps the chain rules it was submitted under."
+      />
+      <div className="flex flex-col gap-6">
+        <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_20rem]">
+          <Card
+            title={`Review chain and validity · version ${chain.version}`}
+            description="Tiers 2 to 4 always end with a safety officer; a higher tier never gets a shorter chain or a longer validity."
+          >
+            <ul className="mb-4 flex flex-col gap-1 text-sm text-stone-700">
+              {chain.rules.tiers.map((t, i) => (
+                <li key={i}>
+                  <span className="font-medium text-stone-900">Tier {i}:</span> {describeChain(t)}; up to{" "}
+                  {t.validityDays} days
+                </li>
+              ))}
+            </ul>
+            <ChainRulesForm rules={chain.rules} />
+          </Card>
+          <Card title="Chain rules history">
+            <History rows={chainHistory} builtIn="built-in defaults" />
+          </Card>
+        </div>
+
+        <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_20rem]">
+          <Card
+            title={`Reminder schedule · version ${reminders.version}`}
+            description="E-mails to the holder before a permit's last valid day; each is sent once per permit."
+          >
+            <ReminderForm daysBefore={reminders.rules.daysBefore} />
+          </Card>
+          <Card title="Reminder history">
+            <History rows={reminderHistory} builtIn="30, 7, 1 and 0 days" />
+          </Card>
+        </div>
+
+        <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_20rem]">
+          <Card
+            title={`Tier thresholds · ${tier.rules.rulesVersion}`}
+            description="The hazard engine's thresholds. New assessments use the adopted set; stored ones keep theirs."
+          >
+            <TierRulesForm rulesJson={JSON.stringify(tier.rules, null, 2)} />
+          </Card>
+          <Card title="Threshold history">
+            <History rows={tierHistory} builtIn="the engine's defaults (arcwarden-default-1)" />
+          </Card>
+        </div>
+      </div>
+    </>
+  );
+}

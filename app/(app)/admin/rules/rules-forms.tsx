@@ -1,0 +1,282 @@
+"use client";
+
+import { useRouter } from "next/navigation";
+import { useState } from "react";
+import { Alert } from "@/app/_components/alert";
+import { Button } from "@/app/_components/button";
+import { Field, FieldShell, controlClasses } from "@/app/_components/field";
+import { ApiError, apiFetch } from "@/lib/client/api";
+import type { ChainRules, Requirement, StepRole } from "@/lib/rules/chain";
+
+// The admin's three rule forms. Each adopts a new version through POST /api/admin/rules; the server
+// validates again and names the field of any problem.
+
+type Status = { tone: "success" | "error"; text: string; issues?: { path: string; message: string }[] } | null;
+
+async function adopt(body: unknown): Promise<Status> {
+  try {
+    const { ruleSet } = await apiFetch<{ ruleSet: { version: number } }>("/api/admin/rules", { body });
+    return { tone: "success", text: `Version ${ruleSet.version} adopted.` };
+  } catch (e) {
+    if (e instanceof ApiError) return { tone: "error", text: e.message, issues: e.issues };
+    return { tone: "error", text: "Nothing was adopted." };
+  }
+}
+
+function StatusBox({ status }: { status: Status }) {
+  return (
+    <div aria-live="polite">
+      {status && (
+        <Alert tone={status.tone} live>
+          {status.text}
+          {status.issues && status.issues.length > 1 && (
+            <ul className="mt-1 list-disc pl-5">
+              {status.issues.map((i) => (
+                <li key={i.path + i.message}>
+                  <span className="figure">{i.path}</span>: {i.message}
+                </li>
+              ))}
+            </ul>
+          )}
+        </Alert>
+      )}
+    </div>
+  );
+}
+
+const CHAINS: { value: string; label: string; steps: StepRole[] }[] = [
+  { value: "none", label: "None: recorded, self-certified", steps: [] },
+  { value: "reviewer", label: "One reviewer", steps: ["reviewer"] },
+  { value: "officer", label: "Safety officer", steps: ["safety_officer"] },
+  { value: "reviewer-officer", label: "Reviewer, then safety officer", steps: ["reviewer", "safety_officer"] },
+];
+
+function chainValue(steps: StepRole[]): string {
+  return CHAINS.find((c) => c.steps.join() === steps.join())?.value ?? "reviewer-officer";
+}
+
+function slug(text: string): string {
+  return (
+    text
+      .toLowerCase()
+      .replace(/[^a-z0-9]+/g, "-")
+      .replace(/^-+|-+$/g, "")
+      .slice(0, 60) || "requirement"
+  );
+}
+
+/** Requirements as lines of text; a line that matches an earlier requirement keeps its id. */
+function toRequirements(text: string, earlier: Requirement[]): Requirement[] {
+  const used = new Set<string>();
+  return text
+    .split("\n")
+    .map((l) => l.trim())
+    .filter(Boolean)
+    .map((line) => {
+      let id = earlier.find((r) => r.text === line)?.id ?? slug(line);
+      for (let n = 2; used.has(id); n++) id = `${slug(line).slice(0, 56)}-${n}`;
+      used.add(id);
+      return { id, text: line };
+    });
+}
+
+export function ChainRulesForm({ rules }: { rules: ChainRules }) {
+  const router = useRouter();
+  const [rows, setRows] = useState(
+    rules.tiers.map((t) => ({
+      chain: chainValue(t.steps),
+      validityDays: String(t.validityDays),
+      requirements: t.requirements.map((r) => r.text).join("\n"),
+    })),
+  );
+  const [note, setNote] = useState("");
+  const [status, setStatus] = useState<Status>(null);
+  const [busy, setBusy] = useState(false);
+
+  const update = (tier: number, patch: Partial<(typeof rows)[number]>) =>
+    setRows((r) => r.map((row, i) => (i === tier ? { ...row, ...patch } : row)));
+  const issueFor = (tier: number, field: string) =>
+    status?.issues?.find((i) => i.path.startsWith(`rules.tiers[${tier}].${field}`))?.message;
+
+  async function submit(event: React.FormEvent) {
+    event.preventDefault();
+    setBusy(true);
+    const body = {
+      kind: "chain",
+      note,
+      rules: {
+        tiers: rows.map((row, tier) => ({
+          steps: CHAINS.find((c) => c.value === row.chain)?.steps ?? [],
+          validityDays: Number(row.validityDays),
+          requirements: toRequirements(row.requirements, rules.tiers[tier].requirements),
+        })),
+      },
+    };
+    const result = await adopt(body);
+    setStatus(result);
+    setBusy(false);
+    if (result?.tone === "success") router.refresh();
+  }
+
+  return (
+    <form onSubmit={submit} noValidate className="flex flex-col gap-4">
+      <StatusBox status={status} />
+      {rows.map((row, tier) => (
+        <fieldset key={tier} className="rounded-md border border-stone-200 px-3 py-3">
+          <legend className="px-1 text-sm font-semibold text-stone-900">Tier {tier}</legend>
+          <div className="grid gap-3 sm:grid-cols-[minmax(0,1fr)_9rem]">
+            <FieldShell label="Review chain" error={issueFor(tier, "steps")}>
+              {(a11y) => (
+                <select
+                  {...a11y}
+                  value={row.chain}
+                  onChange={(e) => update(tier, { chain: e.target.value })}
+                  className={controlClasses}
+                >
+                  {CHAINS.map((c) => (
+                    <option key={c.value} value={c.value}>
+                      {c.label}
+                    </option>
+                  ))}
+                </select>
+              )}
+            </FieldShell>
+            <Field
+              label="Longest validity (days)"
+              name={`validity-${tier}`}
+              inputMode="numeric"
+              value={row.validityDays}
+              onChange={(e) => update(tier, { validityDays: e.target.value })}
+              error={issueFor(tier, "validityDays")}
+              figure
+            />
+          </div>
+          <FieldShell
+            label="Extra requirements (one per line)"
+            hint="The final approver confirms each one; they are printed on the permit as conditions."
+            error={issueFor(tier, "requirements")}
+            className="mt-3"
+          >
+            {(a11y) => (
+              <textarea
+                {...a11y}
+                rows={Math.max(2, row.requirements.split("\n").length)}
+                value={row.requirements}
+                onChange={(e) => update(tier, { requirements: e.target.value })}
+                className={controlClasses}
+              />
+            )}
+          </FieldShell>
+        </fieldset>
+      ))}
+      <Field
+        label="Note for the record"
+        name="chain-note"
+        value={note}
+        onChange={(e) => setNote(e.target.value)}
+        hint="Why the rules change."
+      />
+      <Button type="submit" disabled={busy} className="self-start">
+        {busy ? "Adopting…" : "Adopt as a new version"}
+      </Button>
+    </form>
+  );
+}
+
+export function ReminderForm({ daysBefore }: { daysBefore: number[] }) {
+  const router = useRouter();
+  const [days, setDays] = useState(daysBefore.join(", "));
+  const [note, setNote] = useState("");
+  const [status, setStatus] = useState<Status>(null);
+  const [busy, setBusy] = useState(false);
+
+  async function submit(event: React.FormEvent) {
+    event.preventDefault();
+    const parsed = days
+      .split(/[,\s]+/)
+      .filter(Boolean)
+      .map((d) => Number(d));
+    if (parsed.some((d) => !Number.isInteger(d))) {
+      setStatus({ tone: "error", text: "Enter whole numbers of days, separated by commas." });
+      return;
+    }
+    setBusy(true);
+    const result = await adopt({ kind: "reminders", note, rules: { daysBefore: parsed } });
+    setStatus(result);
+    setBusy(false);
+    if (result?.tone === "success") router.refresh();
+  }
+
+  return (
+    <form onSubmit={submit} noValidate className="flex flex-col gap-4">
+      <StatusBox status={status} />
+      <Field
+        label="Days before expiry (1 = on the last valid day, 0 = the day after)"
+        name="reminder-days"
+        value={days}
+        onChange={(e) => setDays(e.target.value)}
+        hint="Comma-separated; 0 sends one on the day the permit expires."
+        error={status?.issues?.find((i) => i.path.startsWith("rules.daysBefore"))?.message}
+        figure
+      />
+      <Field label="Note for the record" name="reminder-note" value={note} onChange={(e) => setNote(e.target.value)} />
+      <Button type="submit" disabled={busy} className="self-start">
+        {busy ? "Adopting…" : "Adopt the schedule"}
+      </Button>
+    </form>
+  );
+}
+
+export function TierRulesForm({ rulesJson }: { rulesJson: string }) {
+  const router = useRouter();
+  const [text, setText] = useState(rulesJson);
+  const [note, setNote] = useState("");
+  const [status, setStatus] = useState<Status>(null);
+  const [busy, setBusy] = useState(false);
+
+  async function submit(event: React.FormEvent) {
+    event.preventDefault();
+    let rules: unknown;
+    try {
+      rules = JSON.parse(text);
+    } catch {
+      setStatus({ tone: "error", text: "The thresholds are not valid JSON." });
+      return;
+    }
+    setBusy(true);
+    const result = await adopt({ kind: "tier", note, rules });
+    setStatus(result);
+    setBusy(false);
+    if (result?.tone === "success") router.refresh();
+  }
+
+  return (
+    <form onSubmit={submit} noValidate className="flex flex-col gap-4">
+      <StatusBox status={status} />
+      <FieldShell
+        label="Thresholds (JSON, SI base units)"
+        hint="Give the set a new rulesVersion name. Every threshold keeps its unit and names its source; tiers must ascend."
+        error={
+          status?.tone === "error"
+            ? status.issues?.[0] && `${status.issues[0].path}: ${status.issues[0].message}`
+            : undefined
+        }
+      >
+        {(a11y) => (
+          <textarea
+            {...a11y}
+            rows={18}
+            spellCheck={false}
+            value={text}
+            onChange={(e) => setText(e.target.value)}
+            className={`${controlClasses} figure text-xs`}
+          />
+        )}
+      </FieldShell>
+      <Field label="Note for the record" name="tier-note" value={note} onChange={(e) => setNote(e.target.value)} />
+      <Button type="submit" disabled={busy} className="self-start">
+        {busy ? "Adopting…" : "Adopt these thresholds"}
+      </Button>
+    </form>
+  );
+}

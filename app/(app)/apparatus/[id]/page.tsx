@@ -1,0 +1,147 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { ButtonLink } from "@/app/_components/button";
+import { Card } from "@/app/_components/card";
+import { DataTable } from "@/app/_components/data-table";
+import { formatDateTime, isoDate } from "@/app/_components/format";
+import { TierResult } from "@/app/_components/hazard/tier-result";
+import { PageHeader } from "@/app/_components/page-header";
+import type { Tier } from "@/app/_components/tier";
+import { TierBadge } from "@/app/_components/tier-badge";
+import { getApparatus } from "@/lib/apparatus/queries";
+import { GAP_FIELDS, SOURCE_FIELDS } from "@/lib/apparatus/setup-text";
+import { can, requirePageUser } from "@/lib/auth/guards";
+import { assessSetup, BASE_UNIT, formatQuantity, type EnergySource } from "@/lib/hazard";
+import { currentTierRules } from "@/lib/hazard-rules";
+import { AppError } from "@/lib/http/errors";
+import { SOURCE_KIND_LABELS } from "@/lib/validation/apparatus";
+
+export const metadata: Metadata = { title: "Apparatus" };
+
+type PageProps = { params: Promise<{ id: string }> };
+
+async function load(id: string) {
+  const user = await requirePageUser("apparatus.read", `/apparatus/${id}`);
+  if (!/^[0-9a-f-]{36}$/i.test(id)) notFound();
+  try {
+    return { user, apparatus: await getApparatus(user, id) };
+  } catch (error) {
+    if (error instanceof AppError && error.code === "not_found") notFound();
+    throw error;
+  }
+}
+
+function sourceValues(source: EnergySource): string {
+  const record = source as unknown as Record<string, number | undefined>;
+  const parts = SOURCE_FIELDS[source.kind]
+    .filter((spec) => record[spec.name] !== undefined)
+    .map((spec) => `${spec.label}: ${formatQuantity(record[spec.name] as number, BASE_UNIT[spec.dimension])}`);
+  if (source.kind === "capacitor" && source.count !== undefined) {
+    parts.push(`${source.count} units, ${source.arrangement ?? "parallel"}`);
+  }
+  return parts.join(" · ");
+}
+
+export default async function ApparatusPage({ params }: PageProps) {
+  const { id } = await params;
+  const { user, apparatus } = await load(id);
+  const current = apparatus.current;
+  const rules = await currentTierRules();
+  // The figures under the rules in force now; the stored revision keeps the ones it was saved with.
+  const live = assessSetup(current.setup, rules);
+  const changedSinceSaved = live.tier !== current.tier;
+
+  return (
+    <>
+      <PageHeader
+        eyebrow={<Link href="/apparatus">Apparatus</Link>}
+        title={apparatus.name}
+        description={
+          <>
+            {apparatus.room} · {apparatus.departmentName} · registered by {apparatus.ownerName} · revision{" "}
+            {apparatus.currentRevision}
+          </>
+        }
+        actions={
+          <>
+            {apparatus.canEdit && (
+              <ButtonLink href={`/apparatus/${apparatus.id}/edit`} variant="secondary">
+                Edit
+              </ButtonLink>
+            )}
+            {can(user, "application.create") && (
+              <ButtonLink href={`/applications/new?apparatus=${apparatus.id}`}>Use in an application</ButtonLink>
+            )}
+          </>
+        }
+      />
+      <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_22rem]">
+        <div className="flex min-w-0 flex-col gap-6">
+          <Card title="Hazard result" description="Computed by the engine from the current revision.">
+            {changedSinceSaved && (
+              <p className="mb-3 text-sm text-stone-700">
+                Revision {current.revision} was saved at tier {current.tier}; under the tier rules in force now it is
+                tier {live.tier}.
+              </p>
+            )}
+            <TierResult assessment={live} setup={current.setup} rules={rules} headingLevel={3} />
+          </Card>
+        </div>
+        <div className="flex min-w-0 flex-col gap-6">
+          <Card title="Set-up">
+            <h3 className="text-sm font-semibold text-stone-900">Energy sources</h3>
+            <ul className="mt-1 flex flex-col gap-2 text-sm">
+              {current.setup.sources.map((s, i) => (
+                <li key={i}>
+                  <span className="font-medium text-stone-900">{s.id ?? `Source ${i + 1}`}</span>{" "}
+                  <span className="text-stone-600">({SOURCE_KIND_LABELS[s.kind]})</span>
+                  <span className="figure block text-xs text-stone-700">{sourceValues(s)}</span>
+                </li>
+              ))}
+            </ul>
+            {(current.setup.gaps ?? []).length > 0 && (
+              <>
+                <h3 className="mt-3 text-sm font-semibold text-stone-900">Spark gaps</h3>
+                <ul className="mt-1 flex flex-col gap-1 text-sm">
+                  {(current.setup.gaps ?? []).map((g, i) => (
+                    <li key={i} className="figure text-xs text-stone-700">
+                      {GAP_FIELDS.filter((spec) => g[spec.name] !== undefined)
+                        .map(
+                          (spec) =>
+                            `${spec.label}: ${formatQuantity(g[spec.name] as number, BASE_UNIT[spec.dimension])}`,
+                        )
+                        .join(" · ")}
+                    </li>
+                  ))}
+                </ul>
+              </>
+            )}
+            {apparatus.notes && <p className="mt-3 text-sm whitespace-pre-line text-stone-700">{apparatus.notes}</p>}
+          </Card>
+          <Card title="Revisions" flush>
+            <DataTable
+              caption="Revisions"
+              rows={apparatus.revisions}
+              rowKey={(r) => r.id}
+              columns={[
+                { key: "revision", header: "Rev.", rowHeader: true, figure: true, cell: (r) => r.revision },
+                { key: "tier", header: "Tier", cell: (r) => <TierBadge tier={r.tier as Tier} size="sm" /> },
+                {
+                  key: "by",
+                  header: "Saved",
+                  cell: (r) => (
+                    <>
+                      <time dateTime={isoDate(r.createdAt)}>{formatDateTime(r.createdAt)}</time>
+                      <span className="block text-xs text-stone-600">{r.createdByName}</span>
+                    </>
+                  ),
+                },
+              ]}
+            />
+          </Card>
+        </div>
+      </div>
+    </>
+  );
+}

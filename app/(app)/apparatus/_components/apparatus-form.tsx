@@ -1,0 +1,137 @@
+"use client";
+
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useMutation } from "@tanstack/react-query";
+import { useRouter } from "next/navigation";
+import { useState } from "react";
+import { FormProvider, useForm, useWatch } from "react-hook-form";
+import { Alert } from "@/app/_components/alert";
+import { Button } from "@/app/_components/button";
+import { Card } from "@/app/_components/card";
+import { controlClasses, Field, FieldShell } from "@/app/_components/field";
+import { LiveFigures } from "@/app/_components/hazard/live-figures";
+import { QueryProvider } from "@/app/_components/hazard/query-provider";
+import { SetupEditor } from "@/app/_components/hazard/setup-editor";
+import { useLiveAssessment } from "@/app/_components/hazard/use-live-assessment";
+import { apparatusFormSchema, fieldNameOf, type ApparatusFormValues } from "@/lib/apparatus/form";
+import { ApiError, apiFetch } from "@/lib/client/api";
+import type { TierRules } from "@/lib/hazard";
+
+type ApparatusFormProps = {
+  rules: TierRules;
+  initial: ApparatusFormValues;
+} & ({ mode: "create" } | { mode: "edit"; apparatusId: string; revision: number });
+
+export function ApparatusForm(props: ApparatusFormProps) {
+  return (
+    <QueryProvider>
+      <ApparatusFormInner {...props} />
+    </QueryProvider>
+  );
+}
+
+type Saved = { apparatus: { id: string; revision: number } };
+
+function ApparatusFormInner(props: ApparatusFormProps) {
+  const router = useRouter();
+  const [failure, setFailure] = useState<string | null>(null);
+  const form = useForm<ApparatusFormValues>({
+    resolver: zodResolver(apparatusFormSchema, undefined, { raw: true }),
+    defaultValues: props.initial,
+  });
+  const setupText = useWatch({ control: form.control, name: "setup" });
+  const live = useLiveAssessment(setupText, props.rules);
+  const errors = form.formState.errors;
+
+  const save = useMutation({
+    mutationFn: async (values: ApparatusFormValues) => {
+      const body = apparatusFormSchema.parse(values);
+      if (props.mode === "create") return apiFetch<Saved>("/api/apparatus", { body });
+      return apiFetch<Saved>(`/api/apparatus/${props.apparatusId}`, {
+        method: "PATCH",
+        body: { ...body, expectedRevision: props.revision },
+      });
+    },
+    onSuccess: (saved) => {
+      router.push(`/apparatus/${saved.apparatus.id}`);
+      router.refresh();
+    },
+    onError: (error) => {
+      if (error instanceof ApiError) {
+        for (const issue of error.issues) {
+          form.setError(fieldNameOf(issue.path) as keyof ApparatusFormValues, { message: issue.message });
+        }
+      }
+      setFailure(error.message);
+    },
+  });
+
+  const onSubmit = form.handleSubmit(
+    (values) => {
+      setFailure(null);
+      save.mutate(values);
+    },
+    () => setFailure("Some fields need attention; each is marked below."),
+  );
+
+  return (
+    <FormProvider {...form}>
+      <form onSubmit={onSubmit} noValidate className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_20rem]">
+        <div className="flex min-w-0 flex-col gap-6">
+          <div aria-live="polite">{failure && <Alert tone="error">{failure}</Alert>}</div>
+          <Card title="Details">
+            <div className="grid gap-4 sm:grid-cols-2">
+              <Field
+                label="Name"
+                required
+                maxLength={160}
+                autoComplete="off"
+                error={errors.name?.message}
+                {...form.register("name")}
+              />
+              <Field
+                label="Room"
+                required
+                maxLength={120}
+                autoComplete="off"
+                error={errors.room?.message}
+                {...form.register("room")}
+              />
+              <FieldShell
+                label="Notes"
+                hint="Construction, where it is stored, who maintains it."
+                error={errors.notes?.message}
+                className="sm:col-span-2"
+              >
+                {(a11y) => (
+                  <textarea
+                    {...a11y}
+                    rows={3}
+                    maxLength={4000}
+                    className={controlClasses}
+                    {...form.register("notes")}
+                  />
+                )}
+              </FieldShell>
+            </div>
+          </Card>
+          <Card title="Set-up" description="Type values as on a bench sheet: 4.7 nF, 30 kV, 5 mm, 2 MΩ.">
+            <SetupEditor prefix="setup" />
+          </Card>
+          <div className="flex flex-wrap gap-3">
+            <Button type="submit" disabled={save.isPending}>
+              {save.isPending
+                ? "Saving…"
+                : props.mode === "create"
+                  ? "Register apparatus"
+                  : `Save as revision ${props.revision + 1}`}
+            </Button>
+          </div>
+        </div>
+        <div className="lg:sticky lg:top-4 lg:self-start">
+          <LiveFigures assessment={live.assessment} problems={live.issues.length} />
+        </div>
+      </form>
+    </FormProvider>
+  );
+}

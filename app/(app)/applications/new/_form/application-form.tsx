@@ -1,0 +1,401 @@
+"use client";
+
+import Link from "next/link";
+import { useRouter } from "next/navigation";
+import { useCallback, useEffect, useMemo, useRef, useState } from "react";
+import { FormProvider, useForm, useWatch } from "react-hook-form";
+import { Alert } from "@/app/_components/alert";
+import { Button, ButtonLink } from "@/app/_components/button";
+import { Card } from "@/app/_components/card";
+import { cx } from "@/app/_components/cx";
+import { QueryProvider } from "@/app/_components/hazard/query-provider";
+import { useLiveAssessment } from "@/app/_components/hazard/use-live-assessment";
+import { TierBadge } from "@/app/_components/tier-badge";
+import { fieldNameOf } from "@/lib/apparatus/form";
+import { draftToContent } from "@/lib/applications/draft";
+import { ApiError, apiFetch, type FieldIssue } from "@/lib/client/api";
+import { requiredControls, type Tier, type TierRules } from "@/lib/hazard";
+import {
+  FORM_STEPS,
+  STEP_TITLES,
+  type ApplicationDraft,
+  type AttachmentRef,
+  type FormStep,
+} from "@/lib/validation/application";
+import { ApparatusStep, type ApparatusChoice } from "./apparatus-step";
+import { AttachmentsStep } from "./attachments-step";
+import { ControlsStep } from "./controls-step";
+import { EventStep } from "./event-step";
+import { ResultStep } from "./result-step";
+import { ReviewStep } from "./review-step";
+import { stepResolver } from "./step-resolver";
+import { statusText, useAutosave } from "./use-autosave";
+
+export type FormInitial = {
+  id: string | null;
+  seq: number | null;
+  state: "draft" | "returned";
+  version: number;
+  step: number;
+  draft: ApplicationDraft;
+  attachments: AttachmentRef[];
+  savedAt: string | null;
+  revisions: number;
+};
+
+type ApplicationFormProps = { initial: FormInitial; rules: TierRules; choices: ApparatusChoice[] };
+
+export function ApplicationForm(props: ApplicationFormProps) {
+  return (
+    <QueryProvider>
+      <ApplicationFormInner {...props} />
+    </QueryProvider>
+  );
+}
+
+type Submitted = { id: string; state: string; revision: number; tier: Tier; contentHash: string };
+
+function clampStep(step: number): FormStep {
+  return (FORM_STEPS.includes(step as FormStep) ? step : 1) as FormStep;
+}
+
+function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps) {
+  const router = useRouter();
+  const [step, setStep] = useState<FormStep>(clampStep(initial.step));
+  const [attachments, setAttachments] = useState<AttachmentRef[]>(initial.attachments);
+  const [appId, setAppId] = useState<string | null>(initial.id);
+  const [submitted, setSubmitted] = useState<Submitted | null>(null);
+  const [submitError, setSubmitError] = useState<{ message: string; issues: FieldIssue[] } | null>(null);
+  const [submitting, setSubmitting] = useState(false);
+  const [withdrawError, setWithdrawError] = useState<string | null>(null);
+  const headingRef = useRef<HTMLHeadingElement>(null);
+  const movedRef = useRef(false);
+
+  // The resolver validates the step on screen (react-hook-form takes the newest options each render).
+  const form = useForm<ApplicationDraft>({
+    defaultValues: initial.draft,
+    resolver: stepResolver(step, rules),
+    mode: "onSubmit",
+    reValidateMode: "onChange",
+    shouldFocusError: true,
+  });
+
+  const setupText = useWatch({ control: form.control, name: "apparatus.setup" });
+  const live = useLiveAssessment(setupText, rules);
+  const tier = (live.assessment?.tier ?? null) as Tier | null;
+  const required = useMemo(() => (tier === null ? [] : requiredControls(tier, rules)), [tier, rules]);
+  const onCreated = useCallback((id: string) => {
+    setAppId(id);
+    // The draft exists now: its address is the edit page, so a reload resumes it.
+    window.history.replaceState(null, "", `/applications/${id}/edit`);
+  }, []);
+  const { status, saver } = useAutosave({
+    form,
+    initialId: initial.id,
+    initialVersion: initial.version,
+    initialSavedAt: initial.savedAt ? new Date(initial.savedAt) : null,
+    step,
+    onCreated,
+  });
+
+  // Every control the tier requires gets an entry in the draft (kept when the tier drops again).
+  useEffect(() => {
+    const entries = form.getValues("controls.required");
+    const missing = required.filter((rule) => !entries.some((e) => e.code === rule.id));
+    if (missing.length > 0) {
+      form.setValue("controls.required", [
+        ...entries,
+        ...missing.map((rule) => ({ code: rule.id, confirmed: false, note: "" })),
+      ]);
+    }
+  }, [required, form]);
+
+  // A registry revision stays recorded only while the set-up is exactly as picked.
+  const pickedRef = useRef<string | null>(
+    initial.draft.apparatus.apparatusRevisionId ? JSON.stringify(initial.draft.apparatus.setup) : null,
+  );
+  const setupJson = JSON.stringify(setupText);
+  useEffect(() => {
+    if (
+      pickedRef.current !== null &&
+      pickedRef.current !== setupJson &&
+      form.getValues("apparatus.apparatusRevisionId")
+    ) {
+      pickedRef.current = null;
+      form.setValue("apparatus.apparatusRevisionId", null);
+    }
+  }, [setupJson, form]);
+
+  useEffect(() => {
+    if (!movedRef.current) return;
+    headingRef.current?.focus();
+    headingRef.current?.scrollIntoView({ block: "start" });
+  }, [step]);
+
+  function goTo(next: FormStep) {
+    movedRef.current = true;
+    setStep(next);
+    form.clearErrors();
+    saver.markDirty();
+  }
+
+  const goNext = (event: React.FormEvent) => form.handleSubmit(() => goTo(Math.min(6, step + 1) as FormStep))(event);
+
+  const draftNow = useWatch({ control: form.control }) as ApplicationDraft;
+  const outstanding = useMemo(
+    () => (step === 6 ? draftToContent(draftNow, { rules, attachments }).issues : []),
+    [step, draftNow, rules, attachments],
+  );
+
+  const submit = (event: React.FormEvent) => form.handleSubmit(submitNow)(event);
+
+  async function submitNow() {
+    setSubmitError(null);
+    setSubmitting(true);
+    try {
+      const saved = await saver.flush();
+      const id = saver.id;
+      if (!saved || !id) {
+        setSubmitError({
+          message: "The draft could not be saved, so it was not submitted. Nothing you typed is lost.",
+          issues: [],
+        });
+        return;
+      }
+      const res = await apiFetch<{ application: Submitted & { version: number } }>(`/api/applications/${id}/submit`, {
+        body: { expectedVersion: saver.version },
+      });
+      saver.setVersion(res.application.version);
+      setSubmitted(res.application);
+      router.refresh();
+    } catch (error) {
+      if (error instanceof ApiError) {
+        for (const issue of error.issues) {
+          form.setError(fieldNameOf(issue.path) as keyof ApplicationDraft, { message: issue.message });
+        }
+        setSubmitError({ message: error.message, issues: error.issues });
+      } else {
+        setSubmitError({ message: "The application was not submitted. Try again.", issues: [] });
+      }
+    } finally {
+      setSubmitting(false);
+    }
+  }
+
+  async function withdraw() {
+    const id = saver.id;
+    if (!id) return;
+    if (!window.confirm("Withdraw this application? It stays in your list as withdrawn and cannot be submitted."))
+      return;
+    setWithdrawError(null);
+    try {
+      await saver.flush();
+      await apiFetch(`/api/applications/${id}/withdraw`, { body: { expectedVersion: saver.version } });
+      router.push("/applications");
+      router.refresh();
+    } catch (error) {
+      setWithdrawError(error instanceof Error ? error.message : "The application was not withdrawn.");
+    }
+  }
+
+  if (submitted) {
+    return (
+      <Card>
+        <div className="flex flex-col gap-4" data-testid="submitted">
+          <Alert tone="success" title="Submitted for review" live>
+            Revision {submitted.revision} was submitted
+            {submitted.state === "approved"
+              ? " and self-certified (its tier needs no review)."
+              : "; the reviewers of your department have been told."}
+          </Alert>
+          <p className="flex items-center gap-2 text-sm text-stone-800">
+            Tier as computed on the server: <TierBadge tier={submitted.tier} />
+          </p>
+          <div className="flex flex-wrap gap-2">
+            <ButtonLink href={`/applications/${submitted.id}`}>Open the application</ButtonLink>
+            <ButtonLink href="/applications" variant="secondary">
+              All my applications
+            </ButtonLink>
+          </div>
+        </div>
+      </Card>
+    );
+  }
+
+  return (
+    <FormProvider {...form}>
+      <div className="flex flex-col gap-4">
+        <div className="flex flex-wrap items-center justify-between gap-3">
+          <p
+            role="status"
+            aria-live="polite"
+            data-testid="save-status"
+            data-state={status.kind}
+            className={cx(
+              "text-sm",
+              status.kind === "saved"
+                ? "text-stone-600"
+                : status.kind === "saving"
+                  ? "text-stone-700"
+                  : "text-stone-800",
+              (status.kind === "retrying" || status.kind === "conflict" || status.kind === "refused") &&
+                "font-medium text-red-800",
+            )}
+          >
+            {statusText(status)}
+          </p>
+          <div className="flex items-center gap-3">
+            {initial.state === "returned" && (
+              <span className="text-sm text-stone-700">
+                Returned for changes: submitting makes revision {initial.revisions + 1}.
+              </span>
+            )}
+            {appId && (
+              <Button variant="ghost" size="sm" onClick={withdraw}>
+                Withdraw
+              </Button>
+            )}
+          </div>
+        </div>
+        {withdrawError && <Alert tone="error">{withdrawError}</Alert>}
+        {status.kind === "conflict" && (
+          <Alert tone="error" title="This draft was saved elsewhere" live>
+            <p>{status.message}</p>
+            <div className="mt-2 flex flex-wrap gap-2">
+              <Button size="sm" variant="secondary" onClick={() => void saver.loadSaved()}>
+                Load the saved version
+              </Button>
+              <Button size="sm" onClick={() => void saver.keepMine()}>
+                Save mine over it
+              </Button>
+            </div>
+          </Alert>
+        )}
+        {status.kind === "refused" && (
+          <Alert tone="error" title="Not saved" live>
+            {status.message} What you typed is still here; correct it and the draft saves again.
+          </Alert>
+        )}
+        {status.kind === "retrying" && (
+          <Alert tone="warn" title="Not saved — retrying">
+            {status.message} What you typed is kept here and saved as soon as the server answers.
+          </Alert>
+        )}
+
+        <nav aria-label="Steps">
+          <ol className="flex flex-wrap gap-1.5">
+            {FORM_STEPS.map((s) => {
+              const current = s === step;
+              const label = (
+                <>
+                  <span className="figure">{s}</span> {STEP_TITLES[s]}
+                </>
+              );
+              const classes = cx(
+                "inline-flex items-center gap-1.5 rounded-md border px-2.5 py-1 text-sm",
+                current
+                  ? "border-ink-700 bg-ink-700 font-medium text-white"
+                  : "border-stone-300 bg-white text-stone-700",
+              );
+              return (
+                <li key={s}>
+                  {s < step ? (
+                    <button type="button" className={cx(classes, "hover:bg-stone-50")} onClick={() => goTo(s)}>
+                      {label}
+                      <span className="sr-only"> (go back to this step)</span>
+                    </button>
+                  ) : (
+                    <span className={classes} aria-current={current ? "step" : undefined}>
+                      {label}
+                    </span>
+                  )}
+                </li>
+              );
+            })}
+          </ol>
+        </nav>
+
+        <form
+          noValidate
+          onSubmit={(e) => {
+            e.preventDefault();
+            if (step === 6) void submit(e);
+            else void goNext(e);
+          }}
+        >
+          <Card>
+            <h2
+              ref={headingRef}
+              tabIndex={-1}
+              className="mb-4 scroll-mt-4 text-lg font-semibold text-stone-900 focus:outline-none"
+              data-testid="step-heading"
+            >
+              Step {step} of 6: {STEP_TITLES[step]}
+            </h2>
+            {step === 1 && <EventStep />}
+            {step === 2 && (
+              <ApparatusStep
+                choices={choices}
+                live={live}
+                onPicked={(json) => {
+                  pickedRef.current = json;
+                }}
+              />
+            )}
+            {step === 3 && <ResultStep live={live} rules={rules} />}
+            {step === 4 && <ControlsStep tier={tier} required={required} />}
+            {step === 5 && <AttachmentsStep applicationId={appId} initial={attachments} onChange={setAttachments} />}
+            {step === 6 && (
+              <ReviewStep
+                live={live}
+                required={required}
+                attachments={attachments}
+                issues={outstanding}
+                onGoTo={goTo}
+              />
+            )}
+          </Card>
+
+          <div aria-live="polite" className="mt-4">
+            {submitError && (
+              <Alert tone="error" title="Not submitted">
+                <p>{submitError.message}</p>
+                {submitError.issues.length > 1 && (
+                  <ul className="mt-1 list-disc pl-5">
+                    {submitError.issues.map((i) => (
+                      <li key={`${i.path}-${i.message}`}>
+                        <span className="figure">{i.path}</span>: {i.message}
+                      </li>
+                    ))}
+                  </ul>
+                )}
+              </Alert>
+            )}
+          </div>
+
+          <div className="mt-4 flex flex-wrap items-center justify-between gap-3">
+            <div>
+              {step > 1 && (
+                <Button variant="secondary" onClick={() => goTo((step - 1) as FormStep)}>
+                  Back
+                </Button>
+              )}
+            </div>
+            <div className="flex items-center gap-3">
+              <Link href="/applications" className="text-sm text-stone-700 underline">
+                Leave and continue later
+              </Link>
+              {step < 6 ? (
+                <Button type="submit">Next: {STEP_TITLES[(step + 1) as FormStep]}</Button>
+              ) : (
+                <Button type="submit" disabled={submitting}>
+                  {submitting ? "Submitting…" : "Submit for review"}
+                </Button>
+              )}
+            </div>
+          </div>
+        </form>
+      </div>
+    </FormProvider>
+  );
+}

@@ -1,0 +1,19 @@
+// GET /api/apparatus/[id] — one apparatus the user may read: current revision (set-up, assessment)
+// and its revision list. PATCH /api/apparatus/[id] — saves an edit as the next revision (409 when
+// someone saved another revision since `expectedRevision`).
+import { updateApparatus } from "@/lib/apparatus/actions";
+import { getApparatus } from "@/lib/apparatus/queries";
+import { idParam } from "@/lib/applications/params";
+import { route } from "@/lib/http/route";
+import { apparatusUpdateSchema } from "@/lib/validation/apparatus";
+
+export const GET = route({ access: "apparatus.read" }, async ({ user, params }) => ({
+  apparatus: await getApparatus(user, idParam(params.id, "That apparatus")),
+}));
+
+export const PATCH = route(
+  { access: "apparatus.write", body: apparatusUpdateSchema },
+  async ({ user, body, params }) => ({
+    apparatus: await updateApparatus(user, idParam(params.id, "That apparatus"), body),
+  }),
+);

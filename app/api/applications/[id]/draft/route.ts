@@ -1,0 +1,19 @@
+// GET /api/applications/[id]/draft — the applicant's draft, saved step, version and attachments.
+// PATCH /api/applications/[id]/draft — autosave: the whole draft and step, guarded by
+// `expectedVersion` (409 when it was saved elsewhere or is no longer a draft).
+import { saveDraft } from "@/lib/applications/actions";
+import { idParam } from "@/lib/applications/params";
+import { getDraftForEdit } from "@/lib/applications/queries";
+import { route } from "@/lib/http/route";
+import { draftSaveSchema } from "@/lib/validation/application";
+
+export const GET = route({ access: "user" }, async ({ user, params }) => ({
+  application: await getDraftForEdit(user, idParam(params.id, "That application")),
+}));
+
+export const PATCH = route(
+  { access: "application.create", body: draftSaveSchema, maxBodyBytes: 512 * 1024 },
+  async ({ user, body, params }) => ({
+    application: await saveDraft(user, idParam(params.id, "That application"), body),
+  }),
+);

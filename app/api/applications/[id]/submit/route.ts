@@ -1,0 +1,14 @@
+// POST /api/applications/[id]/submit — freezes the saved draft into a new revision (content rebuilt
+// and validated on the server, assessment recomputed) and sends it for review. 422 names each field
+// still missing; 409 when the version moved on.
+import { submitApplication } from "@/lib/applications/actions";
+import { idParam } from "@/lib/applications/params";
+import { route } from "@/lib/http/route";
+import { versionedActionSchema } from "@/lib/validation/application";
+
+export const POST = route(
+  { access: "application.submit", body: versionedActionSchema },
+  async ({ user, body, params }) => ({
+    application: await submitApplication(user, idParam(params.id, "That application"), body.expectedVersion),
+  }),
+);

@@ -1,0 +1,60 @@
+import type { PermitState } from "@/db/schema/permits";
+import type { EmergencyContact } from "@/db/schema/settings";
+import type { Assessment, SetupInput, Tier } from "@/lib/hazard";
+
+// Everything a printed permit shows, gathered from the database at one moment (lib/pdf/data.ts). It
+// is stored beside the rendered files as JSON and hashed: the storage key of a permit's documents is
+// the SHA-256 of this snapshot, so the A4 sheet, the Letter sheet and the bench card always print the
+// same facts, and a new snapshot (a new state) gets new files.
+
+export type PaperSize = "a4" | "letter";
+export type DocumentKind = "permit" | "bench-card";
+
+export type PrintSignature = {
+  name: string;
+  role: string;
+  meaning: string;
+  kind: string;
+  /** ISO 8601, UTC. */
+  signedAt: string;
+};
+
+export type PrintControl = { text: string; confirmed: boolean; note: string };
+
+export type PrintData = {
+  /** Bumped when the printed layout changes in a way that should re-render stored files. */
+  layoutVersion: number;
+  institution: { name: string; emergencyContacts: EmergencyContact[] };
+  permit: {
+    number: string;
+    /** The effective state when the snapshot was taken (expired once validTo has passed). */
+    state: PermitState;
+    tier: Tier;
+    tierLabel: string;
+    validFrom: string;
+    validTo: string;
+    /** ISO 8601, UTC. */
+    issuedAt: string;
+    revokedOn: string | null;
+    revokedReason: string | null;
+    conditions: string[];
+    verificationCode: string;
+    verificationUrl: string;
+  };
+  holderName: string;
+  event: {
+    title: string;
+    kindLabel: string;
+    room: string;
+    audienceLabel: string;
+    audienceSize: number;
+    responsible: string;
+    operators: { name: string; trained: boolean }[];
+  };
+  apparatus: { name: string; room: string; notes: string };
+  setup: SetupInput;
+  assessment: Assessment;
+  controls: PrintControl[];
+  additionalControls: string;
+  signatures: PrintSignature[];
+};

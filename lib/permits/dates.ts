@@ -1,0 +1,56 @@
+// Permit days are calendar days in the institution's time zone (institution_settings.time_zone),
+// written as ISO dates (YYYY-MM-DD). A validity window is inclusive at both ends: a permit valid
+// from 2026-03-01 to 2026-03-30 holds 30 days. Pure functions, shared by server and pages.
+
+import type { PermitState } from "@/db/schema/permits";
+
+const ISO_DAY = /^\d{4}-\d{2}-\d{2}$/;
+const DAY_MS = 86_400_000;
+
+/** The calendar day `now` falls on in `timeZone` (an IANA name; an unknown one counts as UTC). */
+export function todayIn(timeZone: string, now: Date = new Date()): string {
+  let format: Intl.DateTimeFormat;
+  try {
+    format = new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" });
+  } catch {
+    format = new Intl.DateTimeFormat("en-CA", { timeZone: "UTC", year: "numeric", month: "2-digit", day: "2-digit" });
+  }
+  const parts = Object.fromEntries(format.formatToParts(now).map((p) => [p.type, p.value]));
+  return `${parts.year}-${parts.month}-${parts.day}`;
+}
+
+function dayNumber(isoDay: string): number {
+  if (!ISO_DAY.test(isoDay)) throw new Error(`not an ISO date: ${isoDay}`);
+  return Date.UTC(Number(isoDay.slice(0, 4)), Number(isoDay.slice(5, 7)) - 1, Number(isoDay.slice(8, 10))) / DAY_MS;
+}
+
+export function isIsoDay(value: string): boolean {
+  if (!ISO_DAY.test(value)) return false;
+  const d = new Date(`${value}T00:00:00Z`);
+  return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === value;
+}
+
+export function addDays(isoDay: string, days: number): string {
+  return new Date((dayNumber(isoDay) + days) * DAY_MS).toISOString().slice(0, 10);
+}
+
+/** Days from `from` to `to`, both counted: the same day is 1. */
+export function inclusiveDays(from: string, to: string): number {
+  return dayNumber(to) - dayNumber(from) + 1;
+}
+
+/** Whole days from `today` until `day` (0 on the day itself, negative once past). */
+export function daysFromTo(today: string, day: string): number {
+  return dayNumber(day) - dayNumber(today);
+}
+
+/**
+ * What a permit is now: revoked if revoked, expired once its last valid day has passed in the
+ * institution's time zone, else active. The stored state may still say active for an expired permit
+ * until the daily job catches up; screens and checks use this.
+ */
+export function effectivePermitState(permit: { state: PermitState; validTo: string }, today: string): PermitState {
+  if (permit.state === "revoked") return "revoked";
+  if (permit.validTo < today) return "expired";
+  return "active";
+}

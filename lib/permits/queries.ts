@@ -1,0 +1,258 @@
+import "server-only";
+import { and, asc, count, desc, eq, inArray, or, sql, type SQL } from "drizzle-orm";
+import { db } from "@/db";
+import {
+  applicationRevisions,
+  applications,
+  decisions,
+  departments,
+  institutionSettings,
+  permits,
+  users,
+  type PermitState,
+} from "@/db/schema";
+import type { DbOrTx } from "@/lib/audit";
+import { can, type CurrentUser } from "@/lib/auth/guards";
+import type { Assessment } from "@/lib/hazard";
+import { effectivePermitState, todayIn } from "./dates";
+
+// Reads of permits. Who sees a permit: its holder and the people named on its application, reviewers
+// of its department, and safety officers (permit.read.any). The effective state (active, expired,
+// revoked) is computed against the institution's calendar day, in SQL for lists and filters.
+
+export async function institutionTimeZone(tx: DbOrTx = db): Promise<string> {
+  const [row] = await tx.select({ timeZone: institutionSettings.timeZone }).from(institutionSettings).limit(1);
+  return row?.timeZone || "UTC";
+}
+
+export async function institutionToday(now: Date = new Date(), tx: DbOrTx = db): Promise<string> {
+  return todayIn(await institutionTimeZone(tx), now);
+}
+
+/** The effective state as SQL, for filtering and sorting lists. */
+export function effectiveStateSql(today: string): SQL<PermitState> {
+  return sql<PermitState>`(CASE WHEN ${permits.state} = 'revoked' THEN 'revoked' WHEN ${permits.validTo} < ${today}::date THEN 'expired' ELSE 'active' END)`;
+}
+
+/** The permits a user may see, as a WHERE condition (never undefined: a user is required first). */
+export function permitScope(user: CurrentUser): SQL {
+  if (can(user, "permit.read.any")) return sql`true`;
+  const own = or(eq(permits.holderId, user.id), sql`${user.id}::uuid = ANY(${applications.namedUserIds})`)!;
+  if (can(user, "application.review") && user.departmentId) {
+    return or(own, eq(applications.departmentId, user.departmentId))!;
+  }
+  return own;
+}
+
+export const PERMIT_PAGE_SIZE = 25;
+
+export type PermitListFilters = {
+  state?: PermitState;
+  tier?: number;
+  page?: number;
+};
+
+export type PermitListRow = {
+  id: string;
+  number: string;
+  tier: number;
+  state: PermitState;
+  validFrom: string;
+  validTo: string;
+  applicationId: string;
+  title: string;
+  room: string | null;
+  holderName: string;
+  departmentName: string;
+  renewedByApplicationId: string | null;
+};
+
+export async function listPermits(user: CurrentUser, filters: PermitListFilters = {}, now = new Date()) {
+  const today = await institutionToday(now);
+  const state = effectiveStateSql(today);
+  const where = and(
+    permitScope(user),
+    filters.state ? sql`${state} = ${filters.state}` : undefined,
+    filters.tier !== undefined ? eq(permits.tier, filters.tier) : undefined,
+  );
+  const page = Math.max(1, filters.page ?? 1);
+  const [rows, [total]] = await Promise.all([
+    db
+      .select({
+        id: permits.id,
+        number: permits.number,
+        tier: permits.tier,
+        state,
+        validFrom: permits.validFrom,
+        validTo: permits.validTo,
+        applicationId: permits.applicationId,
+        title: applications.title,
+        room: sql<string | null>`${applicationRevisions.content} -> 'event' ->> 'room'`,
+        holderName: users.name,
+        departmentName: departments.name,
+        renewedByApplicationId: permits.renewedByApplicationId,
+      })
+      .from(permits)
+      .innerJoin(applications, eq(applications.id, permits.applicationId))
+      .innerJoin(applicationRevisions, eq(applicationRevisions.id, permits.revisionId))
+      .innerJoin(users, eq(users.id, permits.holderId))
+      .innerJoin(departments, eq(departments.id, applications.departmentId))
+      .where(where)
+      // Active first, soonest to end first; then the rest, newest first.
+      .orderBy(sql`(${state} = 'active') DESC`, asc(permits.validTo), desc(permits.issuedAt))
+      .limit(PERMIT_PAGE_SIZE)
+      .offset((page - 1) * PERMIT_PAGE_SIZE),
+    db
+      .select({ n: count() })
+      .from(permits)
+      .innerJoin(applications, eq(applications.id, permits.applicationId))
+      .where(where),
+  ]);
+  return { rows: rows as PermitListRow[], total: Number(total?.n ?? 0), page, pageSize: PERMIT_PAGE_SIZE, today };
+}
+
+/** Active permits of this user's scope whose last day is within `withinDays` (the dashboard list). */
+export async function expiringPermits(user: CurrentUser, withinDays = 30, now = new Date()) {
+  const today = await institutionToday(now);
+  const rows = await db
+    .select({
+      id: permits.id,
+      number: permits.number,
+      tier: permits.tier,
+      validTo: permits.validTo,
+      title: applications.title,
+      room: sql<string | null>`${applicationRevisions.content} -> 'event' ->> 'room'`,
+    })
+    .from(permits)
+    .innerJoin(applications, eq(applications.id, permits.applicationId))
+    .innerJoin(applicationRevisions, eq(applicationRevisions.id, permits.revisionId))
+    .where(
+      and(
+        permitScope(user),
+        eq(permits.state, "active"),
+        sql`${permits.validTo} >= ${today}::date`,
+        sql`${permits.validTo} <= ${today}::date + ${withinDays}::int`,
+      ),
+    )
+    .orderBy(asc(permits.validTo))
+    .limit(20);
+  return rows.map((r) => ({ ...r, validUntil: r.validTo }));
+}
+
+export type PermitDetail = NonNullable<Awaited<ReturnType<typeof getPermit>>>;
+
+/** One permit with its application, revision and signatures, or null when missing or not visible. */
+export async function getPermit(user: CurrentUser, id: string, now = new Date()) {
+  const today = await institutionToday(now);
+  const [row] = await db
+    .select({
+      permit: {
+        id: permits.id,
+        number: permits.number,
+        year: permits.year,
+        tier: permits.tier,
+        state: permits.state,
+        validFrom: permits.validFrom,
+        validTo: permits.validTo,
+        conditions: permits.conditions,
+        verificationCode: permits.verificationCode,
+        issuedAt: permits.issuedAt,
+        revokedAt: permits.revokedAt,
+        revokedReason: permits.revokedReason,
+        renewedByApplicationId: permits.renewedByApplicationId,
+        version: permits.version,
+        holderId: permits.holderId,
+        revisionId: permits.revisionId,
+        applicationId: permits.applicationId,
+      },
+      application: {
+        id: applications.id,
+        seq: applications.seq,
+        title: applications.title,
+        applicantId: applications.applicantId,
+        namedUserIds: applications.namedUserIds,
+        departmentId: applications.departmentId,
+        chainRulesVersion: applications.chainRulesVersion,
+      },
+      revision: {
+        id: applicationRevisions.id,
+        revision: applicationRevisions.revision,
+        content: applicationRevisions.content,
+        assessment: applicationRevisions.assessment,
+        contentHash: applicationRevisions.contentHash,
+      },
+      holderName: users.name,
+      departmentName: departments.name,
+    })
+    .from(permits)
+    .innerJoin(applications, eq(applications.id, permits.applicationId))
+    .innerJoin(applicationRevisions, eq(applicationRevisions.id, permits.revisionId))
+    .innerJoin(users, eq(users.id, permits.holderId))
+    .innerJoin(departments, eq(departments.id, applications.departmentId))
+    .where(and(eq(permits.id, id), permitScope(user)))
+    .limit(1);
+  if (!row) return null;
+  const signatures = await db
+    .select({
+      id: decisions.id,
+      kind: decisions.kind,
+      step: decisions.step,
+      signerName: decisions.signerName,
+      signerRole: decisions.signerRole,
+      meaning: decisions.meaning,
+      contentHash: decisions.contentHash,
+      comment: decisions.comment,
+      signedAt: decisions.signedAt,
+    })
+    .from(decisions)
+    .where(
+      and(eq(decisions.revisionId, row.permit.revisionId), inArray(decisions.kind, ["recommend", "approve", "revoke"])),
+    )
+    .orderBy(asc(decisions.signedAt));
+  let renewal: { id: string; state: string } | null = null;
+  if (row.permit.renewedByApplicationId) {
+    const [r] = await db
+      .select({ id: applications.id, state: applications.state })
+      .from(applications)
+      .where(eq(applications.id, row.permit.renewedByApplicationId));
+    renewal = r ?? null;
+  }
+  return {
+    ...row,
+    revision: { ...row.revision, assessment: row.revision.assessment as Assessment },
+    effectiveState: effectivePermitState(row.permit, today),
+    today,
+    signatures,
+    renewal,
+  };
+}
+
+/** Every permit, for the officers' CSV export (newest first). */
+export async function permitsForExport(user: CurrentUser, now = new Date()) {
+  const today = await institutionToday(now);
+  const state = effectiveStateSql(today);
+  return db
+    .select({
+      number: permits.number,
+      state,
+      tier: permits.tier,
+      validFrom: permits.validFrom,
+      validTo: permits.validTo,
+      title: applications.title,
+      room: sql<string | null>`${applicationRevisions.content} -> 'event' ->> 'room'`,
+      holderName: users.name,
+      holderEmail: users.email,
+      departmentName: departments.name,
+      conditions: permits.conditions,
+      issuedAt: permits.issuedAt,
+      revokedAt: permits.revokedAt,
+      revokedReason: permits.revokedReason,
+    })
+    .from(permits)
+    .innerJoin(applications, eq(applications.id, permits.applicationId))
+    .innerJoin(applicationRevisions, eq(applicationRevisions.id, permits.revisionId))
+    .innerJoin(users, eq(users.id, permits.holderId))
+    .innerJoin(departments, eq(departments.id, applications.departmentId))
+    .where(permitScope(user))
+    .orderBy(desc(permits.year), desc(permits.seq));
+}

@@ -1,0 +1,129 @@
+import "server-only";
+import { sql } from "drizzle-orm";
+import { db } from "@/db";
+
+// Rate limits kept in PostgreSQL, so a limit holds across app servers and restarts. Each key counts
+// hits in fixed windows of `windowSeconds`; the decision uses the sliding-window estimate
+//   estimate = hits(previous window) · (1 − elapsed / window) + hits(current window)
+// which smooths the burst a plain fixed window allows at its boundary. Every hit is counted, refused
+// ones too, so a client that keeps hammering stays refused. Window starts come from the database's
+// clock, so app servers with skewed clocks agree.
+
+export type RateLimitRule = {
+  /** Most hits allowed in any window-long stretch (estimated). */
+  limit: number;
+  /** Window length in seconds; at most one day (rows older than a day are pruned). */
+  windowSeconds: number;
+};
+
+export type RateLimitResult = {
+  allowed: boolean;
+  /** The sliding-window estimate after this hit (for a peek: after a hit made now, not counted). */
+  estimate: number;
+  limit: number;
+  /** Seconds until the estimate falls back to the limit, if no further hits come; 0 when allowed. */
+  retryAfterSeconds: number;
+};
+
+const MAX_WINDOW_SECONDS = 86_400;
+const MAX_KEY_LENGTH = 200;
+
+function checkRule(key: string, rule: RateLimitRule): void {
+  if (!key || key.length > MAX_KEY_LENGTH) throw new Error(`rate limit key must be 1–${MAX_KEY_LENGTH} characters`);
+  if (!Number.isInteger(rule.limit) || rule.limit < 1) throw new Error("rate limit must be a positive integer");
+  if (!Number.isInteger(rule.windowSeconds) || rule.windowSeconds < 1 || rule.windowSeconds > MAX_WINDOW_SECONDS) {
+    throw new Error(`rate limit window must be 1–${MAX_WINDOW_SECONDS} whole seconds`);
+  }
+}
+
+/**
+ * How long until `previous · (1 − (elapsed + t) / W) + current` (and, past the window's end, the
+ * current window decaying the same way) is back at or under `limit`. Pure, exported for the tests.
+ */
+export function secondsUntilAllowed(input: {
+  previous: number;
+  current: number;
+  elapsedSeconds: number;
+  windowSeconds: number;
+  limit: number;
+}): number {
+  const { previous, current, elapsedSeconds: e, windowSeconds: w, limit } = input;
+  const estimate = previous * (1 - e / w) + current;
+  if (estimate <= limit) return 0;
+  if (current <= limit && previous > 0) {
+    // Still inside this window: the previous window's weight shrinks until the sum fits.
+    const t = w * (1 - (limit - current) / previous) - e;
+    if (t <= w - e) return Math.max(1, Math.ceil(t));
+  }
+  // In the next window this window becomes the previous one: current · (1 − t′ / W) ≤ limit.
+  const tNext = current > limit ? w * (1 - limit / current) : 0;
+  return Math.max(1, Math.ceil(w - e + tNext));
+}
+
+type CounterRow = { previous: number | string | null; current: number | string | null; elapsed: number | string };
+
+async function read(key: string, rule: RateLimitRule, mode: "hit" | "peek", now?: Date): Promise<RateLimitResult> {
+  checkRule(key, rule);
+  const w = rule.windowSeconds;
+  const at = now ? now.toISOString() : null;
+  // One statement: the window start is computed from the same clock reading as the elapsed time.
+  const clock = sql`(SELECT coalesce(${at}::timestamptz, now()) AS t)`;
+  const windowStart = sql`to_timestamp(floor(extract(epoch FROM (SELECT t FROM clock)) / ${w}) * ${w})`;
+  const result =
+    mode === "hit"
+      ? await db.execute<CounterRow>(sql`
+          WITH clock AS ${clock},
+          bumped AS (
+            INSERT INTO rate_limit_counter (key, window_start, hits)
+            VALUES (${key}, ${windowStart}, 1)
+            ON CONFLICT (key, window_start) DO UPDATE SET hits = rate_limit_counter.hits + 1
+            RETURNING hits
+          )
+          SELECT
+            (SELECT hits FROM bumped) AS current,
+            (SELECT hits FROM rate_limit_counter
+              WHERE key = ${key} AND window_start = ${windowStart} - make_interval(secs => ${w})) AS previous,
+            extract(epoch FROM (SELECT t FROM clock)) - extract(epoch FROM ${windowStart}) AS elapsed`)
+      : await db.execute<CounterRow>(sql`
+          WITH clock AS ${clock}
+          SELECT
+            (SELECT hits FROM rate_limit_counter WHERE key = ${key} AND window_start = ${windowStart}) AS current,
+            (SELECT hits FROM rate_limit_counter
+              WHERE key = ${key} AND window_start = ${windowStart} - make_interval(secs => ${w})) AS previous,
+            extract(epoch FROM (SELECT t FROM clock)) - extract(epoch FROM ${windowStart}) AS elapsed`);
+  const row = result.rows[0];
+  // A peek answers for a hit made now, without counting it.
+  const current = Number(row?.current ?? 0) + (mode === "peek" ? 1 : 0);
+  const previous = Number(row?.previous ?? 0);
+  const elapsedSeconds = Math.min(w, Math.max(0, Number(row?.elapsed ?? 0)));
+  const estimate = previous * (1 - elapsedSeconds / w) + current;
+  const allowed = estimate <= rule.limit;
+  if (mode === "hit" && Math.random() < 0.01) await prune(now);
+  return {
+    allowed,
+    estimate,
+    limit: rule.limit,
+    retryAfterSeconds: allowed
+      ? 0
+      : secondsUntilAllowed({ previous, current, elapsedSeconds, windowSeconds: w, limit: rule.limit }),
+  };
+}
+
+/** Counts one hit for `key` and says whether it is within the limit. */
+export function hitRateLimit(key: string, rule: RateLimitRule, now?: Date): Promise<RateLimitResult> {
+  return read(key, rule, "hit", now);
+}
+
+/** Whether a hit now would be allowed, without counting it (for an early refusal in front of a page
+ * that counts its own hits). */
+export function peekRateLimit(key: string, rule: RateLimitRule, now?: Date): Promise<RateLimitResult> {
+  return read(key, rule, "peek", now);
+}
+
+/** Drops counters no window can still read (windows are at most a day long). */
+export async function prune(now?: Date): Promise<void> {
+  const at = now ? now.toISOString() : null;
+  await db.execute(
+    sql`DELETE FROM rate_limit_counter WHERE window_start < coalesce(${at}::timestamptz, now()) - interval '2 days'`,
+  );
+}

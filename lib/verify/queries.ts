@@ -1,0 +1,82 @@
+import "server-only";
+import { and, asc, eq, inArray, sql } from "drizzle-orm";
+import { db } from "@/db";
+import { applicationRevisions, decisions, permits, users, type DecisionKind, type PermitState } from "@/db/schema";
+import { TIER_LABELS, type Tier } from "@/lib/hazard";
+import { effectivePermitState, todayIn } from "@/lib/permits/dates";
+import { institutionTimeZone } from "@/lib/permits/queries";
+import { isWellFormedCode } from "./code";
+
+// What the public verification page may show about a permit, and nothing more (product.md, security.md:
+// only what the printed permit shows): status, number, holder's name, room, validity, tier, and the
+// signers' names and meanings. Columns are listed one by one so nothing else is ever selected.
+
+export type PublicSigner = { name: string; meaning: string; kind: DecisionKind };
+
+export type PublicPermit = {
+  number: string;
+  status: PermitState;
+  holderName: string;
+  room: string;
+  validFrom: string;
+  validTo: string;
+  /** The institution's calendar day the status was computed for (YYYY-MM-DD). */
+  today: string;
+  tier: Tier;
+  tierLabel: string;
+  /** Calendar day of the revocation in the institution's time zone, when revoked. */
+  revokedOn: string | null;
+  signers: PublicSigner[];
+};
+
+/** The signatures a permit carries: the chain that approved its revision, and a revocation. */
+const SIGNATURE_KINDS: DecisionKind[] = ["recommend", "approve", "revoke"];
+
+/** The permit behind a verification code, or null for an unknown or malformed code (told apart nowhere). */
+export async function findPublicPermit(code: string, now: Date = new Date()): Promise<PublicPermit | null> {
+  if (!isWellFormedCode(code)) return null;
+  const [row] = await db
+    .select({
+      id: permits.id,
+      revisionId: permits.revisionId,
+      number: permits.number,
+      state: permits.state,
+      tier: permits.tier,
+      validFrom: permits.validFrom,
+      validTo: permits.validTo,
+      revokedAt: permits.revokedAt,
+      holderName: users.name,
+      eventRoom: sql<string | null>`${applicationRevisions.content}->'event'->>'room'`,
+      apparatusRoom: sql<string | null>`${applicationRevisions.content}->'apparatus'->>'room'`,
+    })
+    .from(permits)
+    .innerJoin(users, eq(users.id, permits.holderId))
+    .innerJoin(applicationRevisions, eq(applicationRevisions.id, permits.revisionId))
+    .where(eq(permits.verificationCode, code))
+    .limit(1);
+  if (!row) return null;
+
+  const [timeZone, signers] = await Promise.all([
+    institutionTimeZone(),
+    db
+      .select({ name: decisions.signerName, meaning: decisions.meaning, kind: decisions.kind })
+      .from(decisions)
+      .where(and(eq(decisions.revisionId, row.revisionId), inArray(decisions.kind, SIGNATURE_KINDS)))
+      .orderBy(asc(decisions.signedAt)),
+  ]);
+  const today = todayIn(timeZone, now);
+  const tier = row.tier as Tier;
+  return {
+    number: row.number,
+    status: effectivePermitState({ state: row.state, validTo: row.validTo }, today),
+    holderName: row.holderName,
+    room: row.eventRoom || row.apparatusRoom || "",
+    validFrom: row.validFrom,
+    validTo: row.validTo,
+    today,
+    tier,
+    tierLabel: TIER_LABELS[tier],
+    revokedOn: row.revokedAt ? todayIn(timeZone, row.revokedAt) : null,
+    signers,
+  };
+}

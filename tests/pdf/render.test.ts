@@ -1,0 +1,190 @@
+import { describe, expect, it } from "vitest";
+import { CAUTION_TEXT } from "@/app/_components/caution";
+import { formatQuantity, type Tier } from "@/lib/hazard";
+import { dischargeSteps } from "@/lib/pdf/content";
+import { countPages, renderDocument } from "@/lib/pdf/render";
+import type { PaperSize, PrintData } from "@/lib/pdf/types";
+import { samplePrintData } from "./samples";
+import { decodeQr, folded, pdfInfo, pdfPages, pdfText } from "./support";
+
+// The printed permit and bench card, rendered from print snapshots (no database) and read back the
+// way a person or a scanner would: text with pdftotext, page size with pdfinfo, the QR code
+// rasterised by pdftoppm and decoded by jsqr.
+
+/**
+ * The figures each sample prints, worked by hand from tests/pdf/samples.ts (E = ½·C·V²; I_peak =
+ * V / 500 Ω; continuous = min(limit, V / 500 Ω); t = R_b·C·ln(V / 60 V)), three significant digits.
+ */
+const EXPECTED: Record<
+  Tier,
+  { energy: string; voltage: string; peak: string; continuous: string; timeToSafe: string }
+> = {
+  // C = 4·π·ε0·0.05 m = 5.563 pF; E = ½·5.563 pF·(100 kV)² = 27.8 mJ; 100 kV / 500 Ω = 200 A; no bleeder.
+  0: { energy: "27.8 mJ", voltage: "100 kV", peak: "200 A", continuous: "0 A", timeToSafe: "no bleeder" },
+  // ½·100 nF·(1 kV)² = 50.0 mJ; 1 kV / 500 Ω = 2.00 A; 10 MΩ·100 nF·ln(1000/60) = 2.81 s.
+  1: { energy: "50.0 mJ", voltage: "1.00 kV", peak: "2.00 A", continuous: "0 A", timeToSafe: "2.81 s" },
+  // ½·10 nF·(10 kV)² = 500 mJ; 10 kV / 500 Ω = 20.0 A; 100 MΩ·10 nF·ln(10000/60) = 5.12 s.
+  2: { energy: "500 mJ", voltage: "10.0 kV", peak: "20.0 A", continuous: "0 A", timeToSafe: "5.12 s" },
+  // ½·1 µF·(10 kV)² = 50.0 J; 20.0 A; the 5 mA charger limits the continuous current; it has no bleeder.
+  3: { energy: "50.0 J", voltage: "10.0 kV", peak: "20.0 A", continuous: "5.00 mA", timeToSafe: "no bleeder" },
+  // ½·(4 × 100 µF)·(20 kV)² = 80.0 kJ; 20 kV / 500 Ω = 40.0 A; min(100 mA, 40 A) = 100 mA.
+  4: { energy: "80.0 kJ", voltage: "20.0 kV", peak: "40.0 A", continuous: "100 mA", timeToSafe: "no bleeder" },
+};
+
+/** Page sizes in points: ISO 216 A4 is 210 × 297 mm; US Letter is 8.5 × 11 in (72 pt per inch). */
+const PAGE_POINTS: Record<PaperSize, { width: number; height: number }> = {
+  a4: { width: (210 / 25.4) * 72, height: (297 / 25.4) * 72 },
+  letter: { width: 612, height: 792 },
+};
+
+const TIERS: Tier[] = [0, 1, 2, 3, 4];
+const SIZES: PaperSize[] = ["a4", "letter"];
+
+function expectPageSize(pdf: Buffer, size: PaperSize) {
+  const info = pdfInfo(pdf);
+  expect(info.width).toBeCloseTo(PAGE_POINTS[size].width, 0);
+  expect(info.height).toBeCloseTo(PAGE_POINTS[size].height, 0);
+  return info;
+}
+
+describe("the printed permit", () => {
+  for (const tier of TIERS) {
+    for (const size of SIZES) {
+      it(`prints a tier ${tier} permit on ${size} with its number, figures, signers, caution and a QR code to its page`, async () => {
+        const data = samplePrintData(tier);
+        const pdf = await renderDocument(data, "permit", size);
+        expect(pdf.subarray(0, 5).toString()).toBe("%PDF-");
+        expectPageSize(pdf, size);
+        const text = pdfText(pdf);
+
+        expect(text).toContain(data.permit.number);
+        expect(text).toContain("ACTIVE");
+        expect(text).toContain(`Tier ${tier}`);
+        expect(text).toContain(data.permit.tierLabel);
+        expect(text).toContain("1 Mar 2026 – 31 Mar 2026");
+        expect(text).toContain(data.event.room);
+        expect(text).toContain(data.holderName);
+        expect(text).toContain("Owen Pryce");
+
+        const want = EXPECTED[tier];
+        expect(data.assessment.tier).toBe(tier);
+        for (const figure of [want.energy, want.voltage, want.peak, want.continuous, want.timeToSafe]) {
+          expect(text, figure).toContain(figure);
+        }
+        // Approach distances come from the engine's NFPA 70E table (lib/hazard/approach.ts, tested there).
+        const { limited_m, restricted_m } = data.assessment.approach;
+        if (limited_m !== null) expect(text).toContain(formatQuantity(limited_m, "m"));
+        if (restricted_m !== null) expect(text).toContain(formatQuantity(restricted_m, "m"));
+
+        for (const step of dischargeSteps(data.setup, data.assessment)) expect(text).toContain(folded(step));
+        for (const contact of data.institution.emergencyContacts) expect(text).toContain(contact.phone);
+        for (const control of data.controls) expect(text).toContain(folded(control.text));
+        for (const condition of data.permit.conditions) expect(text).toContain(condition);
+
+        if (data.signatures.length === 0) expect(text).toContain("self-certified");
+        for (const signature of data.signatures) {
+          expect(text).toContain(signature.name);
+          expect(text).toContain(signature.role);
+          expect(text).toContain(signature.meaning);
+        }
+        // Signed times in UTC (samples.ts: 2026-02-25T09:30Z and 2026-02-26T10:15Z).
+        if (tier > 0) expect(text).toContain("2026-02-25 09:30 UTC");
+
+        expect(text).toContain(folded(CAUTION_TEXT));
+        expect(text).toContain(data.permit.verificationCode);
+        expect(decodeQr(pdf)).toBe(data.permit.verificationUrl);
+      });
+    }
+  }
+
+  it("fits a tier 0 permit with its signatures on one A4 page", async () => {
+    const pdf = await renderDocument(samplePrintData(0), "permit", "a4");
+    expect(pdfInfo(pdf).pages).toBe(1);
+    expect(countPages(pdf)).toBe(1);
+  });
+
+  it("prints the caution and the permit number on every page of a longer permit", async () => {
+    const data = samplePrintData(4);
+    const pdf = await renderDocument(data, "permit", "letter");
+    const pages = pdfPages(pdf);
+    expect(pages.length).toBeGreaterThan(1);
+    for (const page of pages) {
+      expect(page).toContain(folded(CAUTION_TEXT));
+      expect(page).toContain(data.permit.number);
+    }
+  });
+
+  it("overprints a revoked permit with the word, the day and the reason", async () => {
+    const data = samplePrintData(3, {
+      state: "revoked",
+      revokedOn: "2026-03-10",
+      revokedReason: "The bleeder failed its check.",
+    });
+    const text = pdfText(await renderDocument(data, "permit", "a4"));
+    expect(text).toContain("REVOKED");
+    expect(text).toContain("do not run this set-up");
+    expect(text).toContain("Revoked on 10 Mar 2026: The bleeder failed its check.");
+    expect(text).not.toContain("ACTIVE");
+  });
+
+  it("overprints an expired permit and names its last valid day", async () => {
+    const data = samplePrintData(2, { state: "expired" });
+    const text = pdfText(await renderDocument(data, "permit", "a4"));
+    expect(text).toContain("EXPIRED");
+    expect(text).toContain("the last valid day was 31 Mar 2026");
+    expect(text).not.toContain("ACTIVE");
+  });
+});
+
+describe("the bench card", () => {
+  const variants: Array<[Tier, PrintData["permit"]["state"]]> = [
+    [0, "active"],
+    [1, "active"],
+    [2, "expired"],
+    [3, "active"],
+    [4, "revoked"],
+  ];
+  for (const [tier, state] of variants) {
+    for (const size of SIZES) {
+      it(`fits a tier ${tier} ${state} card on one ${size} page with the discharge steps, contacts, state and QR code`, async () => {
+        const data = samplePrintData(tier, { state, revokedOn: state === "revoked" ? "2026-03-10" : null });
+        const pdf = await renderDocument(data, "bench-card", size);
+        const info = expectPageSize(pdf, size);
+        expect(info.pages).toBe(1);
+        const text = pdfText(pdf);
+        expect(text).toContain(data.permit.number);
+        expect(text).toContain(state.toUpperCase());
+        expect(text).toContain(`Tier ${tier}`);
+        for (const step of dischargeSteps(data.setup, data.assessment)) expect(text).toContain(folded(step));
+        for (const contact of data.institution.emergencyContacts) {
+          expect(text).toContain(contact.label);
+          expect(text).toContain(contact.phone);
+        }
+        expect(text).toContain(folded(CAUTION_TEXT));
+        expect(decodeQr(pdf)).toBe(data.permit.verificationUrl);
+      });
+    }
+  }
+
+  it("stays on one page with a long procedure and many contacts by shrinking its type", async () => {
+    const data = samplePrintData(4, {
+      state: "revoked",
+      revokedOn: "2026-03-10",
+      revokedReason: "x ".repeat(120).trim(),
+    });
+    data.institution.emergencyContacts = Array.from({ length: 5 }, (_, i) => ({
+      label: `Contact ${i + 1} with a long description of when to call`,
+      phone: `+44 20 7946 01${i}${i}`,
+    }));
+    data.setup = {
+      ...data.setup,
+      sources: data.setup.sources.map((s, i) => ({
+        ...s,
+        id: `Source with a deliberately long label number ${i + 1}`,
+      })),
+    };
+    const pdf = await renderDocument(data, "bench-card", "letter");
+    expect(pdfInfo(pdf).pages).toBe(1);
+    expect(pdfText(pdf)).toContain("+44 20 7946 0144");
+  });
+});

@@ -1,0 +1,271 @@
+import { and, eq, sql } from "drizzle-orm";
+import { afterEach, describe, expect, it } from "vitest";
+import { getDb } from "@/db";
+import { applications, auditEvents, decisions, institutionSettings, mailOutbox, permits } from "@/db/schema";
+import { AppError } from "@/lib/http/errors";
+import { renewPermit } from "@/lib/permits/actions";
+import { addDays, daysFromTo, effectivePermitState, inclusiveDays, isIsoDay, todayIn } from "@/lib/permits/dates";
+import { formatPermitNumber, newVerificationCode } from "@/lib/permits/numbers";
+import { expiringPermits, getPermit, listPermits } from "@/lib/permits/queries";
+import { decide, revokePermit } from "@/lib/review/actions";
+import { DECISION_MEANINGS } from "@/lib/review/policy";
+import { applicationDraftSchema } from "@/lib/validation/application";
+import { createUser, requireDatabase, TEST_PASSWORD } from "../support/db";
+import { asActor, createSubmittedApplication, createTeam } from "../review/support";
+
+requireDatabase();
+
+async function statusOf(promise: Promise<unknown>): Promise<number | "ok"> {
+  try {
+    await promise;
+    return "ok";
+  } catch (error) {
+    if (error instanceof AppError) return error.status;
+    throw error;
+  }
+}
+
+/** A tier-1 permit approved by the team's reviewer, held by the team's instructor. */
+async function issuedPermit(
+  team: Awaited<ReturnType<typeof createTeam>>,
+  options: { operators?: { id: string; name: string }[] } = {},
+) {
+  const { application } = await createSubmittedApplication({
+    applicant: team.instructor,
+    tier: 1,
+    operators: options.operators,
+    namedUserIds: options.operators?.map((o) => o.id),
+  });
+  const result = await decide(asActor(team.reviewer), application.id, {
+    kind: "approve",
+    expectedVersion: application.version,
+    password: TEST_PASSWORD,
+    confirmedRequirements: [],
+    extraConditions: [],
+  });
+  return { application: result.application, permit: result.permit! };
+}
+
+describe("permit days (institution calendar, inclusive windows)", () => {
+  it("reads today in the institution's time zone", () => {
+    // 2026-03-01 23:30 UTC is already 2 March in Auckland (UTC+13 in March) and still 1 March in New York.
+    const instant = new Date("2026-03-01T23:30:00Z");
+    expect(todayIn("UTC", instant)).toBe("2026-03-01");
+    expect(todayIn("Pacific/Auckland", instant)).toBe("2026-03-02");
+    expect(todayIn("America/New_York", instant)).toBe("2026-03-01");
+    expect(todayIn("Not/A_Zone", instant)).toBe("2026-03-01");
+  });
+
+  it("counts windows inclusively and crosses month and leap-year ends", () => {
+    expect(inclusiveDays("2026-03-01", "2026-03-01")).toBe(1);
+    expect(inclusiveDays("2026-03-01", "2026-03-30")).toBe(30);
+    expect(addDays("2028-02-28", 1)).toBe("2028-02-29");
+    expect(addDays("2026-12-31", 1)).toBe("2027-01-01");
+    expect(daysFromTo("2026-03-01", "2026-03-08")).toBe(7);
+    expect(isIsoDay("2026-02-29")).toBe(false);
+    expect(isIsoDay("2028-02-29")).toBe(true);
+  });
+
+  it("computes the effective state: revoked, expired once the last day has passed, else active", () => {
+    expect(effectivePermitState({ state: "active", validTo: "2026-03-10" }, "2026-03-10")).toBe("active");
+    expect(effectivePermitState({ state: "active", validTo: "2026-03-10" }, "2026-03-11")).toBe("expired");
+    expect(effectivePermitState({ state: "expired", validTo: "2026-03-10" }, "2026-03-11")).toBe("expired");
+    expect(effectivePermitState({ state: "revoked", validTo: "2099-01-01" }, "2026-03-11")).toBe("revoked");
+  });
+
+  it("numbers permits AW-YYYY-NNNN and draws 256-bit verification codes", () => {
+    expect(formatPermitNumber(2026, 7)).toBe("AW-2026-0007");
+    expect(formatPermitNumber(2026, 12345)).toBe("AW-2026-12345");
+    const codes = new Set(Array.from({ length: 200 }, () => newVerificationCode()));
+    expect(codes.size).toBe(200);
+    for (const code of codes) expect(Buffer.from(code, "base64url")).toHaveLength(32);
+  });
+});
+
+describe("the institution's time zone", () => {
+  let earlier: (typeof institutionSettings.$inferSelect)[] = [];
+  afterEach(async () => {
+    // Put back whatever settings row other tests may rely on.
+    await getDb().delete(institutionSettings);
+    if (earlier.length) await getDb().insert(institutionSettings).values(earlier);
+  });
+
+  it("dates a permit by the institution's calendar day", async () => {
+    earlier = await getDb().select().from(institutionSettings);
+    // Far east of UTC (UTC+14), so the institution's day is usually a day ahead of UTC's.
+    await getDb()
+      .insert(institutionSettings)
+      .values({ name: "Test Institute", timeZone: "Pacific/Kiritimati" })
+      .onConflictDoUpdate({ target: institutionSettings.id, set: { timeZone: "Pacific/Kiritimati" } });
+    const team = await createTeam();
+    const { permit } = await issuedPermit(team);
+    expect(permit.validFrom).toBe(todayIn("Pacific/Kiritimati"));
+  });
+});
+
+describe("revoking a permit", () => {
+  it("records a signed revoke decision, audits it and tells the holder and the named operators", async () => {
+    const team = await createTeam();
+    const operator = await createUser({ roles: ["instructor"], departmentId: team.dept.id });
+    const { application, permit } = await issuedPermit(team, { operators: [{ id: operator.id, name: operator.name }] });
+    const result = await revokePermit(asActor(team.officer), permit.id, {
+      expectedVersion: permit.version,
+      password: TEST_PASSWORD,
+      reason: "The barrier was removed.",
+    });
+    expect(result.permit).toMatchObject({
+      state: "revoked",
+      revokedById: team.officer.id,
+      revokedReason: "The barrier was removed.",
+    });
+    expect(result.decision).toMatchObject({
+      kind: "revoke",
+      step: null,
+      signerRole: "Safety officer",
+      meaning: DECISION_MEANINGS.revoke,
+      revisionId: permit.revisionId,
+      comment: "The barrier was removed.",
+    });
+    const found = await getPermit(asActor(team.instructor), permit.id);
+    expect(found?.effectiveState).toBe("revoked");
+    const mail = await getDb()
+      .select({ to: mailOutbox.toAddress })
+      .from(mailOutbox)
+      .where(and(eq(mailOutbox.kind, "permit_revoked"), sql`${mailOutbox.data} ->> 'permitId' = ${permit.id}`));
+    expect(mail.map((m) => m.to).sort()).toEqual([team.instructor.email, operator.email].sort());
+    const audit = await getDb()
+      .select({ action: auditEvents.action })
+      .from(auditEvents)
+      .where(and(eq(auditEvents.entityType, "permit"), eq(auditEvents.entityId, permit.id)));
+    expect(audit.map((a) => a.action)).toEqual(["permit.issued", "permit.revoked"]);
+    // The application keeps its state; only the permit ends.
+    const [app] = await getDb()
+      .select({ state: applications.state })
+      .from(applications)
+      .where(eq(applications.id, application.id));
+    expect(app.state).toBe("approved");
+  });
+
+  it("refuses a second revoke (409), a reviewer (403), and an officer named on the permit (403)", async () => {
+    const team = await createTeam();
+    const { permit } = await issuedPermit(team, { operators: [{ id: team.officer2.id, name: team.officer2.name }] });
+    const body = { expectedVersion: permit.version, password: TEST_PASSWORD, reason: "Checks overdue." };
+    expect(await statusOf(revokePermit(asActor(team.reviewer), permit.id, body))).toBe(403);
+    expect(await statusOf(revokePermit(asActor(team.officer2), permit.id, body))).toBe(403);
+    expect(await statusOf(revokePermit(asActor(team.officer), permit.id, body))).toBe("ok");
+    expect(
+      await statusOf(revokePermit(asActor(team.officer), permit.id, { ...body, expectedVersion: permit.version + 1 })),
+    ).toBe(409);
+    const revokes = await getDb()
+      .select()
+      .from(decisions)
+      .where(and(eq(decisions.revisionId, permit.revisionId), eq(decisions.kind, "revoke")));
+    expect(revokes).toHaveLength(1);
+  });
+
+  it("refuses to revoke an expired permit (409)", async () => {
+    const team = await createTeam();
+    const { permit } = await issuedPermit(team);
+    await getDb()
+      .update(permits)
+      .set({ validFrom: "2020-01-01", validTo: "2020-01-31" })
+      .where(eq(permits.id, permit.id));
+    expect(
+      await statusOf(
+        revokePermit(asActor(team.officer), permit.id, {
+          expectedVersion: permit.version,
+          password: TEST_PASSWORD,
+          reason: "Late.",
+        }),
+      ),
+    ).toBe(409);
+    expect((await getPermit(asActor(team.officer), permit.id))?.effectiveState).toBe("expired");
+  });
+});
+
+describe("renewing a permit", () => {
+  it("creates a draft prefilled from the permit's revision with the dates cleared, and links it", async () => {
+    const team = await createTeam();
+    const { application, permit } = await issuedPermit(team);
+    const { application: renewal } = await renewPermit(asActor(team.instructor), permit.id);
+    const [row] = await getDb().select().from(applications).where(eq(applications.id, renewal.id));
+    expect(row).toMatchObject({
+      state: "draft",
+      applicantId: team.instructor.id,
+      departmentId: application.departmentId,
+      renewalOfPermitId: permit.id,
+      title: application.title,
+    });
+    const draft = applicationDraftSchema.parse(row.draft);
+    expect(draft.event.firstDay).toBe("");
+    expect(draft.event.lastDay).toBe("");
+    expect(draft.event.title).toBe(application.title);
+    expect(draft.event.audienceSize).toBe("40");
+    expect(draft.attestation.accepted).toBe(false);
+    expect(draft.controls.required.every((c) => !c.confirmed)).toBe(true);
+    // The set-up comes back as the form's text: 0.45 µF at 100 V (the tier-1 fixture).
+    expect(draft.apparatus.setup.sources).toHaveLength(1);
+    expect(draft.apparatus.setup.sources[0].kind).toBe("capacitor");
+    expect(draft.apparatus.setup.sources[0].label).toBe("C1");
+    const [linked] = await getDb().select().from(permits).where(eq(permits.id, permit.id));
+    expect(linked.renewedByApplicationId).toBe(renewal.id);
+  });
+
+  it("refuses a second renewal while the first is open (409) but allows one after it is withdrawn", async () => {
+    const team = await createTeam();
+    const { permit } = await issuedPermit(team);
+    const first = await renewPermit(asActor(team.instructor), permit.id);
+    expect(await statusOf(renewPermit(asActor(team.instructor), permit.id))).toBe(409);
+    await getDb().update(applications).set({ state: "withdrawn" }).where(eq(applications.id, first.application.id));
+    expect(await statusOf(renewPermit(asActor(team.instructor), permit.id))).toBe("ok");
+  });
+
+  it("lets only the holder renew (404 for anyone else) and never a revoked permit (409)", async () => {
+    const team = await createTeam();
+    const { permit } = await issuedPermit(team);
+    expect(await statusOf(renewPermit(asActor(team.reviewer), permit.id))).toBe(404);
+    expect(await statusOf(renewPermit(asActor(team.officer), permit.id))).toBe(404);
+    await revokePermit(asActor(team.officer), permit.id, {
+      expectedVersion: permit.version,
+      password: TEST_PASSWORD,
+      reason: "Moved rooms.",
+    });
+    expect(await statusOf(renewPermit(asActor(team.instructor), permit.id))).toBe(409);
+  });
+});
+
+describe("who sees which permits", () => {
+  it("shows the holder their own, the department's reviewer theirs, the officer all, and hides them from others", async () => {
+    const team = await createTeam();
+    const { permit } = await issuedPermit(team);
+    const stranger = await createUser({ roles: ["instructor"], departmentId: team.office.id });
+    const see = async (user: Parameters<typeof asActor>[0]) => (await getPermit(asActor(user), permit.id)) !== null;
+    expect(await see(team.instructor)).toBe(true);
+    expect(await see(team.reviewer2)).toBe(true);
+    expect(await see(team.officer)).toBe(true);
+    expect(await see(stranger)).toBe(false);
+    expect(await see(team.otherReviewer)).toBe(false);
+    const list = await listPermits(asActor(team.instructor), { state: "active" });
+    expect(list.rows.map((r) => r.id)).toContain(permit.id);
+    expect((await listPermits(asActor(stranger))).rows.map((r) => r.id)).not.toContain(permit.id);
+    const revokedOnly = await listPermits(asActor(team.instructor), { state: "revoked" });
+    expect(revokedOnly.rows.map((r) => r.id)).not.toContain(permit.id);
+  });
+
+  it("lists a permit ending within 30 days among the expiring ones", async () => {
+    const team = await createTeam();
+    const { permit } = await issuedPermit(team);
+    const today = todayIn("UTC");
+    await getDb()
+      .update(permits)
+      .set({ validTo: addDays(today, 5) })
+      .where(eq(permits.id, permit.id));
+    const soon = await expiringPermits(asActor(team.instructor), 30);
+    expect(soon.map((p) => p.id)).toContain(permit.id);
+    await getDb()
+      .update(permits)
+      .set({ validTo: addDays(today, 45) })
+      .where(eq(permits.id, permit.id));
+    expect((await expiringPermits(asActor(team.instructor), 30)).map((p) => p.id)).not.toContain(permit.id);
+  });
+});
