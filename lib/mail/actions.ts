@@ -1,5 +1,5 @@
 import "server-only";
-import { and, asc, eq, sql } from "drizzle-orm";
+import { and, asc, eq, inArray, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { mailOutbox, type OutboxMail } from "@/db/schema";
 import type { Tx } from "@/lib/audit";
@@ -56,6 +56,8 @@ export type DeliverOptions = {
   now?: Date;
   /** Most rows to send in this call (default 100). */
   limit?: number;
+  /** Only these outbox rows (resending one message by hand; tests that must not wait for a backlog). */
+  ids?: readonly number[];
   smtp?: SmtpSettings;
   observer?: DeliveryObserver;
   maxAttempts?: number;
@@ -103,11 +105,12 @@ async function recordFailure(
   return failed ? "failed" : "retry";
 }
 
-type DeliverySettings = Required<Omit<DeliverOptions, "observer" | "limit">> & Pick<DeliverOptions, "observer">;
+type DeliverySettings = Required<Omit<DeliverOptions, "observer" | "limit" | "ids">> &
+  Pick<DeliverOptions, "observer" | "ids">;
 type Settled = { id: number; outcome: DeliveryOutcome };
 
 async function deliverNext(settings: DeliverySettings): Promise<Settled | null> {
-  const { now, smtp, observer, maxAttempts, backoff } = settings;
+  const { now, smtp, observer, maxAttempts, backoff, ids } = settings;
   // Held outside the transaction so a failed commit can drop the unfinished message.
   const inflight: { delivery?: PhasedDelivery } = {};
   let claim: Settled | { row: OutboxMail; delivery: PhasedDelivery } | null;
@@ -117,7 +120,7 @@ async function deliverNext(settings: DeliverySettings): Promise<Settled | null> 
       const [row] = await tx
         .select()
         .from(mailOutbox)
-        .where(dueCondition(now, backoff))
+        .where(and(dueCondition(now, backoff), ids ? inArray(mailOutbox.id, [...ids]) : undefined))
         .orderBy(asc(mailOutbox.id))
         .limit(1)
         .for("update", { skipLocked: true });
@@ -171,6 +174,7 @@ export async function deliverDueMail(options: DeliverOptions = {}): Promise<Deli
     observer: options.observer,
     maxAttempts: options.maxAttempts ?? OUTBOX_POLICY.maxAttempts,
     backoff: options.backoff ?? OUTBOX_POLICY.backoff,
+    ids: options.ids,
   };
   const report: DeliveryReport = { sent: [], retry: [], failed: [], unknown: [] };
   const limit = options.limit ?? 100;

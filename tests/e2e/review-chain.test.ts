@@ -162,7 +162,7 @@ describe("the rules page, in a real browser", () => {
     await page.goto("/admin/rules");
     await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Rules");
     await expectNoSeriousViolations(page, "/admin/rules");
-    const days = page.getByLabel("Days before the last valid day");
+    const days = page.getByLabel(/Days before expiry/);
     await days.fill("30, 7, 7");
     await page.getByRole("button", { name: "Adopt the schedule" }).click();
     await expect.poll(() => page.getByText("Each day may appear once.").first().isVisible()).toBe(true);

@@ -260,3 +260,9 @@ export function runChild(script: string, args: string[], env: Record<string, str
     child.on("exit", (code, signal) => resolve({ code, signal, stdout, stderr }));
   });
 }
+
+/** The outbox rows queued to one address (to send just those with deliverDueMail({ ids })). */
+export async function outboxIdsTo(address: string): Promise<number[]> {
+  const rows = await getDb().select({ id: mailOutbox.id }).from(mailOutbox).where(eq(mailOutbox.toAddress, address));
+  return rows.map((r) => r.id);
+}

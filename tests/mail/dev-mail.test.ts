@@ -6,7 +6,7 @@ import { deliverDueMail } from "@/lib/mail/actions";
 import { queueMail } from "@/lib/mail/outbox";
 import { createUser, requireDatabase, uniq } from "../support/db";
 import { baseUrl, http, signIn } from "../support/http";
-import { caughtTo } from "../jobs/support";
+import { caughtTo, outboxIdsTo } from "../jobs/support";
 
 requireDatabase();
 
@@ -26,8 +26,8 @@ describe("/dev/mail", () => {
         },
       }),
     );
-    // Other test files leave mail queued in the shared outbox: deliver all of it, not the first 100.
-    await deliverDueMail({ limit: 10_000 });
+    // Other test files leave mail queued in the shared outbox: send just this message.
+    await deliverDueMail({ ids: await outboxIdsTo(to) });
     const [caught] = caughtTo(to);
 
     const list = await http("/api/dev/mail", { cookie });

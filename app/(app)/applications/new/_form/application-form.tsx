@@ -166,8 +166,9 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
         body: { expectedVersion: saver.version },
       });
       saver.setVersion(res.application.version);
+      // No refresh here: the edit page would re-render for a submitted application and move away
+      // from this confirmation (which carries the tier the server computed) before it is read.
       setSubmitted(res.application);
-      router.refresh();
     } catch (error) {
       if (error instanceof ApiError) {
         for (const issue of error.issues) {
