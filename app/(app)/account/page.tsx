@@ -3,6 +3,8 @@ import { Card } from "@/app/_components/card";
 import { PageHeader } from "@/app/_components/page-header";
 import { requirePageUser } from "@/lib/auth/guards";
 import { ROLE_LABELS } from "@/lib/auth/permissions";
+import { hasCalendarFeed } from "@/lib/calendar/queries";
+import { CalendarFeed } from "./calendar-feed";
 import { ChangePasswordForm } from "./change-password-form";
 
 export const metadata: Metadata = { title: "Your account" };
@@ -23,6 +25,9 @@ export default async function AccountPage() {
         </Card>
         <Card title="Change password">
           <ChangePasswordForm />
+        </Card>
+        <Card title="Calendar feed">
+          <CalendarFeed exists={await hasCalendarFeed(user.id)} />
         </Card>
       </div>
     </>
