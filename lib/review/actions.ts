@@ -26,7 +26,7 @@ import { revisionHash } from "./canonical";
 import { checkDecision, DECISION_MEANINGS, separationOfDuties, type ChainDecisionKind } from "./policy";
 import type { DecisionBody, RevokeBody } from "./schemas";
 import { transition } from "./state";
-import { canReadApplication } from "./visibility";
+import { canReadApplication } from "@/lib/applications/access";
 
 // Signed decisions. Each one is a single transaction: the guarded state transition (409 on a lost
 // race), the decision row (unique per revision and step: a second signature of one step cannot

@@ -20,7 +20,7 @@ import { BUILT_IN_CHAIN_VERSION, type ChainRules, type StepRole } from "@/lib/ru
 import { allChainRules, chainRulesFor } from "@/lib/rules/queries";
 import { revisionDiff, type DiffEntry } from "./diff";
 import { decisionOptions, pendingStep, type DecisionOptions } from "./policy";
-import { canReadApplication } from "./visibility";
+import { canReadApplication } from "@/lib/applications/access";
 
 // Reads for the review queue, the application record page and the audit export.
 
@@ -320,6 +320,7 @@ export async function returnCommentsFor(user: CurrentUser, applicationId: string
       applicantId: applications.applicantId,
       namedUserIds: applications.namedUserIds,
       departmentId: applications.departmentId,
+      submittedAt: applications.submittedAt,
       currentRevisionId: applications.currentRevisionId,
     })
     .from(applications)
