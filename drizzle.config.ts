@@ -7,7 +7,7 @@ export default defineConfig({
   schema: "./db/schema/index.ts",
   out: "./db/migrations",
   dbCredentials: {
-    url: process.env.DATABASE_URL ?? "postgres://arcwarden@127.0.0.1:54329/arcwarden",
+    url: process.env.DATABASE_URL ?? "postgres://benchclear@127.0.0.1:54329/benchclear",
   },
   casing: "snake_case",
   strict: true,

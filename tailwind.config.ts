@@ -1,9 +1,9 @@
 import type { Config } from "tailwindcss";
 
-// Arcwarden's theme. Linked from app/globals.css with `@config`; content scanning is set there with
+// Benchclear's theme. Linked from app/globals.css with `@config`; content scanning is set there with
 // explicit `@source` folders, never here (the project root holds PostgreSQL's data folder).
 //
-// Tier colours are Arcwarden's own: 0 slate, 1 teal, 2 amber, 3 crimson, 4 violet. Each tier has
+// Tier colours are Benchclear's own: 0 slate, 1 teal, 2 amber, 3 crimson, 4 violet. Each tier has
 //   tier-N        the swatch for solid marks and bars (≥ 3:1 on white and on the tint; not for text)
 //   tier-N-light  a tint for backgrounds
 //   tier-N-border a border on the tint
@@ -38,8 +38,8 @@ const config: Config = {
     extend: {
       colors: { ...tiers, ink },
       fontFamily: {
-        sans: ["var(--font-arcwarden-sans)", "ui-sans-serif", "system-ui", "sans-serif"],
-        mono: ["var(--font-arcwarden-mono)", "ui-monospace", "SFMono-Regular", "Menlo", "monospace"],
+        sans: ["var(--font-benchclear-sans)", "ui-sans-serif", "system-ui", "sans-serif"],
+        mono: ["var(--font-benchclear-mono)", "ui-monospace", "SFMono-Regular", "Menlo", "monospace"],
       },
       maxWidth: {
         shell: "80rem",

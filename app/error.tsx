@@ -23,7 +23,7 @@ export default function ErrorPage({ error, reset }: { error: Error & { digest?: 
         </>
       }
     >
-      <p>Arcwarden could not show this page. Try again in a moment; if it keeps failing, go back to the dashboard.</p>
+      <p>Benchclear could not show this page. Try again in a moment; if it keeps failing, go back to the dashboard.</p>
       {error.digest && (
         <p className="text-sm text-stone-600">
           If it happens again, tell your administrator this reference:{" "}

@@ -11,8 +11,8 @@ export default function GlobalError({ error, reset }: { error: Error & { digest?
       <body>
         <main className="flex min-h-dvh items-center justify-center px-4 py-12">
           <div className="w-full max-w-md">
-            <p className="text-sm font-medium text-stone-600">Arcwarden</p>
-            <h1 className="mt-1 text-2xl font-semibold tracking-tight text-stone-900">Arcwarden is unavailable</h1>
+            <p className="text-sm font-medium text-stone-600">Benchclear</p>
+            <h1 className="mt-1 text-2xl font-semibold tracking-tight text-stone-900">Benchclear is unavailable</h1>
             <p className="mt-2 text-stone-700">
               The application could not start this page. Try again; if it keeps failing, tell your administrator.
             </p>

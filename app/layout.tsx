@@ -4,10 +4,10 @@ import { fontVariables } from "./fonts";
 import "./globals.css";
 
 export const metadata: Metadata = {
-  title: { template: "%s · Arcwarden", default: "Arcwarden" },
+  title: { template: "%s · Benchclear", default: "Benchclear" },
   description:
     "Hazard assessment, review and permits for high-voltage demonstrations and teaching or research benches.",
-  applicationName: "Arcwarden",
+  applicationName: "Benchclear",
   icons: { icon: "/mark.svg" },
   robots: { index: false, follow: false },
 };

@@ -9,7 +9,7 @@ import * as schema from "./schema";
 
 export type Database = NodePgDatabase<typeof schema> & { $client: Pool };
 
-const globalForDb = globalThis as unknown as { arcwardenPool?: Pool; arcwardenDb?: Database };
+const globalForDb = globalThis as unknown as { benchclearPool?: Pool; benchclearDb?: Database };
 
 function createPool(): Pool {
   const config = env();
@@ -18,18 +18,18 @@ function createPool(): Pool {
     max: config.DATABASE_POOL_MAX,
     connectionTimeoutMillis: 10_000,
     idleTimeoutMillis: 30_000,
-    application_name: "arcwarden",
+    application_name: "benchclear",
   });
   pool.on("error", (error) => console.error("[db] idle client error:", error.message));
   return pool;
 }
 
 export function getDb(): Database {
-  if (!globalForDb.arcwardenDb) {
-    globalForDb.arcwardenPool = createPool();
-    globalForDb.arcwardenDb = drizzle({ client: globalForDb.arcwardenPool, schema, casing: "snake_case" });
+  if (!globalForDb.benchclearDb) {
+    globalForDb.benchclearPool = createPool();
+    globalForDb.benchclearDb = drizzle({ client: globalForDb.benchclearPool, schema, casing: "snake_case" });
   }
-  return globalForDb.arcwardenDb;
+  return globalForDb.benchclearDb;
 }
 
 /** The database client, created on first use so that importing this module needs no connection. */
@@ -42,9 +42,9 @@ export const db: Database = new Proxy({} as Database, {
 });
 
 export async function closeDb(): Promise<void> {
-  const pool = globalForDb.arcwardenPool;
-  globalForDb.arcwardenPool = undefined;
-  globalForDb.arcwardenDb = undefined;
+  const pool = globalForDb.benchclearPool;
+  globalForDb.benchclearPool = undefined;
+  globalForDb.benchclearDb = undefined;
   await pool?.end();
 }
 

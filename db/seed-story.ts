@@ -158,9 +158,9 @@ export async function seedStory(password: string): Promise<boolean> {
   const [done] = await db.select({ id: auditEvents.id }).from(auditEvents).where(eq(auditEvents.action, STORY_DONE));
   if (done) return false;
 
-  const instructor = await asCurrentUser("instructor@arcwarden.test");
-  const reviewer = await asCurrentUser("reviewer@arcwarden.test");
-  const officer = await asCurrentUser("officer@arcwarden.test");
+  const instructor = await asCurrentUser("instructor@benchclear.test");
+  const reviewer = await asCurrentUser("reviewer@benchclear.test");
+  const officer = await asCurrentUser("officer@benchclear.test");
   const signing = { ip: "seed" };
 
   const registry = {} as Record<0 | 1 | 2 | 3 | 4, { id: string; revisionId: string }>;

@@ -8,7 +8,7 @@ import { loadLocalEnv } from "@/scripts/lib/load-env";
 import { closeDb, getDb } from "./index";
 import { departments, institutionSettings, users, type Role } from "./schema";
 
-export const DEMO_PASSWORD = "arcwarden-demo-2026";
+export const DEMO_PASSWORD = "benchclear-demo-2026";
 export const INSTITUTION_NAME = "Aldermere Institute of Technology";
 
 export const DEMO_DEPARTMENTS = [
@@ -17,10 +17,10 @@ export const DEMO_DEPARTMENTS = [
 ] as const;
 
 export const DEMO_USERS: { email: string; name: string; roles: Role[]; department: string }[] = [
-  { email: "instructor@arcwarden.test", name: "Imogen Tallis", roles: ["instructor"], department: "PHYS" },
-  { email: "reviewer@arcwarden.test", name: "Rafael Quenby", roles: ["reviewer"], department: "PHYS" },
-  { email: "officer@arcwarden.test", name: "Dana Whitlock", roles: ["safety_officer"], department: "OUTR" },
-  { email: "admin@arcwarden.test", name: "Sam Ferreira", roles: ["admin"], department: "OUTR" },
+  { email: "instructor@benchclear.test", name: "Imogen Tallis", roles: ["instructor"], department: "PHYS" },
+  { email: "reviewer@benchclear.test", name: "Rafael Quenby", roles: ["reviewer"], department: "PHYS" },
+  { email: "officer@benchclear.test", name: "Dana Whitlock", roles: ["safety_officer"], department: "OUTR" },
+  { email: "admin@benchclear.test", name: "Sam Ferreira", roles: ["admin"], department: "OUTR" },
 ];
 
 export async function seed(): Promise<void> {

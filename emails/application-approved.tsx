@@ -28,9 +28,9 @@ export const applicationApprovedEmail: EmailBuilder<"application_approved"> = (d
     { type: "action", label: "Open the permit", url: appLink(ctx, `/permits/${data.permitId}`) },
     {
       type: "text",
-      text: "The attached calendar file adds the validity window to your calendar. Arcwarden reminds you before the permit ends.",
+      text: "The attached calendar file adds the validity window to your calendar. Benchclear reminds you before the permit ends.",
     },
     { type: "caution" },
   ],
-  reason: "You get this e-mail because you hold this permit in Arcwarden.",
+  reason: "You get this e-mail because you hold this permit in Benchclear.",
 });

@@ -20,5 +20,5 @@ export const applicationRecommendedEmail: EmailBuilder<"application_recommended"
     },
     { type: "action", label: "Open the application", url: appLink(ctx, `/applications/${data.applicationId}`) },
   ],
-  reason: "You get this e-mail because you are a safety officer in Arcwarden and give the final approval.",
+  reason: "You get this e-mail because you are a safety officer in Benchclear and give the final approval.",
 });

@@ -14,5 +14,5 @@ export const applicationRejectedEmail: EmailBuilder<"application_rejected"> = (d
     { type: "action", label: "Open the application", url: appLink(ctx, `/applications/${data.applicationId}`) },
     { type: "caution" },
   ],
-  reason: "You get this e-mail because you submitted this application in Arcwarden.",
+  reason: "You get this e-mail because you submitted this application in Benchclear.",
 });

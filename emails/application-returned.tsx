@@ -14,5 +14,5 @@ export const applicationReturnedEmail: EmailBuilder<"application_returned"> = (d
     ...(data.pinnedTo ? [{ type: "facts" as const, rows: [{ label: "About", value: data.pinnedTo }] }] : []),
     { type: "action", label: "Open the application", url: appLink(ctx, `/applications/${data.applicationId}`) },
   ],
-  reason: "You get this e-mail because you submitted this application in Arcwarden.",
+  reason: "You get this e-mail because you submitted this application in Benchclear.",
 });

@@ -21,5 +21,5 @@ export const applicationSubmittedEmail: EmailBuilder<"application_submitted"> = 
     },
     { type: "action", label: "Open the application", url: appLink(ctx, `/applications/${data.applicationId}`) },
   ],
-  reason: `You get this e-mail because you review applications for ${data.departmentName ?? "this application's department"} in Arcwarden.`,
+  reason: `You get this e-mail because you review applications for ${data.departmentName ?? "this application's department"} in Benchclear.`,
 });

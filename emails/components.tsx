@@ -1,6 +1,6 @@
 import type { CSSProperties, ReactNode } from "react";
 
-// The building blocks every Arcwarden e-mail is made of, and the one frame they sit in. An e-mail is
+// The building blocks every Benchclear e-mail is made of, and the one frame they sit in. An e-mail is
 // described once as content (heading, blocks, the reason the recipient gets it); <EmailDocument>
 // renders it to HTML and textBody() to the plain-text part, so the two parts always say the same
 // thing and carry the same links. Styles are inline (mail clients drop <style> and classes) and the
@@ -95,7 +95,7 @@ function Mark() {
           >
             A
           </td>
-          <td style={{ paddingLeft: "10px", fontSize: "16px", fontWeight: 600, color: C.text }}>Arcwarden</td>
+          <td style={{ paddingLeft: "10px", fontSize: "16px", fontWeight: 600, color: C.text }}>Benchclear</td>
         </tr>
       </tbody>
     </table>
@@ -278,7 +278,7 @@ export function EmailDocument({ content, frame }: { content: EmailContent; frame
                       >
                         <p style={{ margin: "0 0 6px" }}>{content.reason}</p>
                         <p style={{ margin: 0 }}>
-                          Arcwarden · {frame.institutionName} ·{" "}
+                          Benchclear · {frame.institutionName} ·{" "}
                           <a href={frame.appUrl} style={{ color: C.muted }}>
                             {frame.appUrl.replace(/^https?:\/\//, "")}
                           </a>
@@ -324,6 +324,6 @@ export function textBody(content: EmailContent, frame: EmailFrame): string {
         break;
     }
   }
-  out.push("--", content.reason, `Arcwarden · ${frame.institutionName} · ${frame.appUrl}`);
+  out.push("--", content.reason, `Benchclear · ${frame.institutionName} · ${frame.appUrl}`);
   return out.join("\n") + "\n";
 }

@@ -31,8 +31,8 @@ export const permitReminderEmail: EmailBuilder<"permit_reminder"> = (data, ctx) 
         { type: "caution" },
       ],
       reason: forReviewer
-        ? "You get this e-mail because you signed the review of this permit's application in Arcwarden."
-        : "You get this e-mail because you hold this permit in Arcwarden.",
+        ? "You get this e-mail because you signed the review of this permit's application in Benchclear."
+        : "You get this e-mail because you hold this permit in Benchclear.",
     };
   }
   const left = data.daysLeft === 1 ? "Today is its last valid day" : `${data.daysLeft} days left, today included`;
@@ -58,6 +58,6 @@ export const permitReminderEmail: EmailBuilder<"permit_reminder"> = (data, ctx) 
       },
       { type: "action", label: "Open the permit", url: permitUrl },
     ],
-    reason: "You get this e-mail because you hold this permit in Arcwarden. Reminders stop once you renew it.",
+    reason: "You get this e-mail because you hold this permit in Benchclear. Reminders stop once you renew it.",
   };
 };

@@ -19,6 +19,6 @@ export const permitRevokedEmail: EmailBuilder<"permit_revoked"> = (data, ctx) =>
   ],
   reason:
     ctx.recipient.relation === "holder"
-      ? "You get this e-mail because you hold this permit in Arcwarden."
+      ? "You get this e-mail because you hold this permit in Benchclear."
       : "You get this e-mail because you are named on this permit's application (as an operator or the responsible person).",
 });

@@ -1,6 +1,6 @@
 import { z } from "zod";
 
-// Every environment variable Arcwarden reads, validated once. `.env.example` documents each one.
+// Every environment variable Benchclear reads, validated once. `.env.example` documents each one.
 // Server code calls env(); the first call fails fast with a message naming each bad variable.
 
 const bool = z
@@ -19,13 +19,13 @@ export const envSchema = z
     DATABASE_POOL_MAX: z.coerce.number().int().min(1).max(200).default(10),
     AUTH_SECRET: z.string({ error: "is required (32+ random characters)" }).min(32, "must be at least 32 characters"),
     APP_URL: z.url({ protocol: /^https?$/, error: "must be an http(s) URL" }).default("http://localhost:3000"),
-    MAIL_TRANSPORT: z.enum(["catcher", "smtp"]).default("catcher"),
+    MAIL_TRANSPORT: z.enum(["local-inbox", "smtp"]).default("local-inbox"),
     SMTP_HOST: z.string().min(1).default("127.0.0.1"),
     SMTP_PORT: port.default(1025),
     SMTP_USER: z.string().optional(),
     SMTP_PASSWORD: z.string().optional(),
     SMTP_SECURE: bool,
-    MAIL_FROM: z.string().min(3).default("Arcwarden <no-reply@arcwarden.test>"),
+    MAIL_FROM: z.string().min(3).default("Benchclear <no-reply@benchclear.test>"),
     STORAGE_DRIVER: z.enum(["local", "s3"]).default("local"),
     STORAGE_DIR: z.string().min(1).default(".data/uploads"),
     S3_BUCKET: z.string().optional(),
@@ -36,8 +36,8 @@ export const envSchema = z
     S3_FORCE_PATH_STYLE: bool,
     WORKER_IN_APP: bool,
     LOG_INVITATION_LINKS: bool,
-    // Where the local mail catcher keeps messages (read by /dev/mail).
-    MAIL_CATCHER_DIR: z.string().min(1).default(".data/mail"),
+    // Where the local inbox keeps messages (read by /dev/mail).
+    LOCAL_INBOX_DIR: z.string().min(1).default(".data/mail"),
   })
   .superRefine((value, ctx) => {
     if (value.STORAGE_DRIVER === "s3" && !value.S3_BUCKET) {

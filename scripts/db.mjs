@@ -8,8 +8,8 @@ try {
   const env = localEnv();
   if (command === "up") {
     await pgUp(env);
-    ensureDatabase(env, "arcwarden");
-    step(`PostgreSQL is up: ${databaseUrl(env, "arcwarden").replace(/:[^:@/]+@/, ":***@")}`);
+    ensureDatabase(env, "benchclear");
+    step(`PostgreSQL is up: ${databaseUrl(env, "benchclear").replace(/:[^:@/]+@/, ":***@")}`);
   } else if (command === "down") {
     if (!pgDown()) step("PostgreSQL is not running");
   } else {

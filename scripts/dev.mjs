@@ -1,6 +1,6 @@
 #!/usr/bin/env node
 // `npm run dev`: PostgreSQL, migrations and seed as for `npm start`, then `next dev` with hot reload
-// on http://localhost:3000 and the mail catcher. Ctrl-C stops what it started.
+// on http://localhost:3000 and the local inbox. Ctrl-C stops what it started.
 import {
   bin,
   databaseUrl,
@@ -26,12 +26,12 @@ try {
   const local = localEnv();
   registerUser();
   await pgUp(local);
-  ensureDatabase(local, "arcwarden");
+  ensureDatabase(local, "benchclear");
   const env = {
     ...process.env,
     ...local,
     NODE_ENV: "development",
-    DATABASE_URL: local.DATABASE_URL ?? databaseUrl(local, "arcwarden"),
+    DATABASE_URL: local.DATABASE_URL ?? databaseUrl(local, "benchclear"),
     APP_URL: `http://localhost:${PORT}`,
     AUTH_TRUST_HOST: "true",
     SMTP_PORT: String(MAIL_PORT),
@@ -40,9 +40,9 @@ try {
   run(bin("tsx"), ["db/migrate.ts"], { env });
   run(bin("tsx"), ["db/seed.ts"], { env });
   await requireFreePort(PORT, "the dev server", "PORT");
-  await requireFreePort(MAIL_PORT, "the mail catcher", "SMTP_PORT");
-  startChild("mail catcher", bin("tsx"), ["scripts/mail-catcher.ts"], {
-    env: { ...env, CATCHER_PORT: String(MAIL_PORT) },
+  await requireFreePort(MAIL_PORT, "the local inbox", "SMTP_PORT");
+  startChild("local inbox", bin("tsx"), ["scripts/local-inbox.ts"], {
+    env: { ...env, INBOX_PORT: String(MAIL_PORT) },
   });
   step(`next dev on http://localhost:${PORT}`);
   const server = startChild("dev server", bin("next"), ["dev", "-p", String(PORT)], {

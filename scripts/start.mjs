@@ -1,6 +1,6 @@
 #!/usr/bin/env node
 // `npm start`: install what is missing, start PostgreSQL, migrate, seed the demo data once, build when
-// stale, then serve on http://localhost:3000 with the mail catcher and the job worker. Ctrl-C stops
+// stale, then serve on http://localhost:3000 with the local inbox and the job worker. Ctrl-C stops
 // what it started.
 import {
   bin,
@@ -34,7 +34,7 @@ async function shutdown(code = 0) {
   if (shuttingDown) return;
   shuttingDown = true;
   console.log("");
-  step("Stopping the app, the mail catcher and the worker");
+  step("Stopping the app, the local inbox and the worker");
   await stopAllChildren();
   fs.rmSync(pidFile, { force: true });
   releasePg();
@@ -49,11 +49,11 @@ async function main() {
   process.on("SIGTERM", () => shutdown(0));
 
   await pgUp(local);
-  ensureDatabase(local, "arcwarden");
+  ensureDatabase(local, "benchclear");
   const appEnv = {
     ...process.env,
     ...local,
-    DATABASE_URL: local.DATABASE_URL ?? databaseUrl(local, "arcwarden"),
+    DATABASE_URL: local.DATABASE_URL ?? databaseUrl(local, "benchclear"),
     APP_URL: local.APP_URL ?? `http://localhost:${PORT}`,
     AUTH_URL: local.AUTH_URL ?? local.APP_URL ?? `http://localhost:${PORT}`,
     AUTH_TRUST_HOST: "true",
@@ -70,15 +70,15 @@ async function main() {
   ensureBuild(appEnv);
 
   await requireFreePort(PORT, "the web server", "PORT");
-  await requireFreePort(MAIL_PORT, "the mail catcher", "SMTP_PORT");
+  await requireFreePort(MAIL_PORT, "the local inbox", "SMTP_PORT");
 
-  step(`Starting the mail catcher on 127.0.0.1:${MAIL_PORT}`);
-  const catcher = startChild("mail catcher", bin("tsx"), ["scripts/mail-catcher.ts"], {
-    env: { ...appEnv, NODE_ENV: "development", CATCHER_PORT: String(MAIL_PORT) },
+  step(`Starting the local inbox on 127.0.0.1:${MAIL_PORT}`);
+  const inbox = startChild("local inbox", bin("tsx"), ["scripts/local-inbox.ts"], {
+    env: { ...appEnv, NODE_ENV: "development", INBOX_PORT: String(MAIL_PORT) },
   });
-  catcher.on("exit", (code) => !shuttingDown && (console.error(`mail catcher exited (${code})`), shutdown(1)));
+  inbox.on("exit", (code) => !shuttingDown && (console.error(`local inbox exited (${code})`), shutdown(1)));
 
-  step(`Starting Arcwarden on http://localhost:${PORT}`);
+  step(`Starting Benchclear on http://localhost:${PORT}`);
   const server = startChild("web server", bin("next"), ["start", "-p", String(PORT), "-H", "127.0.0.1"], {
     env: { ...appEnv, NODE_ENV: "production", WORKER_IN_APP: local.WORKER_IN_APP ?? "true" },
   });
@@ -87,8 +87,8 @@ async function main() {
   await waitForHttp(`http://127.0.0.1:${PORT}/sign-in`, { child: server });
 
   console.log("");
-  step(`Arcwarden is ready: http://localhost:${PORT}`);
-  info("Demo sign-ins (password arcwarden-demo-2026): instructor@, reviewer@, officer@, admin@arcwarden.test");
+  step(`Benchclear is ready: http://localhost:${PORT}`);
+  info("Demo sign-ins (password benchclear-demo-2026): instructor@, reviewer@, officer@, admin@benchclear.test");
   info(`Caught e-mail: http://localhost:${PORT}/dev/mail (as admin). Press Ctrl-C to stop.`);
 }
 

@@ -1,5 +1,5 @@
 #!/usr/bin/env node
-// `npm test`: the same services as `npm start` (PostgreSQL, a production build, the mail catcher),
+// `npm test`: the same services as `npm start` (PostgreSQL, a production build, the local inbox),
 // a fresh test database, then lint, typecheck and every vitest test. Ends with `N passed, N failed`.
 // Extra arguments go to vitest, e.g. `npm test -- tests/hazard`.
 import fs from "node:fs";
@@ -31,9 +31,9 @@ import { spawnSync } from "node:child_process";
 const TEST_PORT = Number(process.env.TEST_PORT ?? 3210);
 const TEST_MAIL_PORT = Number(process.env.TEST_SMTP_PORT ?? 2526);
 const vitestArgs = process.argv.slice(2);
-const quick = process.env.ARCWARDEN_TEST_QUICK === "1";
+const quick = process.env.BENCHCLEAR_TEST_QUICK === "1";
 // Several checkouts' or helpers' test runs can share one machine with their own database and build.
-const TEST_DB = process.env.TEST_DB_NAME ?? "arcwarden_test";
+const TEST_DB = process.env.TEST_DB_NAME ?? "benchclear_test";
 if (!/^[a-z_][a-z0-9_]{0,62}$/.test(TEST_DB)) throw new Error("TEST_DB_NAME must be a plain lower-case identifier");
 
 const failures = [];
@@ -62,7 +62,7 @@ function distDirForTests() {
   } catch {
     return ".next";
   }
-  const stamp = path.join(root, ".next", ".arcwarden-source-hash");
+  const stamp = path.join(root, ".next", ".benchclear-source-hash");
   const fresh = fs.existsSync(stamp) && fs.readFileSync(stamp, "utf8").trim() === sourceHash();
   return fresh ? ".next" : ".next-test";
 }
@@ -98,11 +98,11 @@ async function main() {
     AUTH_TRUST_HOST: "true",
     SMTP_HOST: "127.0.0.1",
     SMTP_PORT: String(TEST_MAIL_PORT),
-    MAIL_CATCHER_DIR: path.join(dataDir, `mail-${TEST_DB}`),
+    LOCAL_INBOX_DIR: path.join(dataDir, `mail-${TEST_DB}`),
     STORAGE_DIR: path.join(dataDir, `uploads-${TEST_DB}`),
     NEXT_TELEMETRY_DISABLED: "1",
   };
-  fs.rmSync(testEnv.MAIL_CATCHER_DIR, { recursive: true, force: true });
+  fs.rmSync(testEnv.LOCAL_INBOX_DIR, { recursive: true, force: true });
   fs.rmSync(testEnv.STORAGE_DIR, { recursive: true, force: true });
 
   if (!stage("Migrations", bin("tsx"), ["db/migrate.ts"], testEnv)) throw new Error("migrations failed");
@@ -115,10 +115,10 @@ async function main() {
   ensureBuild({ ...testEnv }, distDir);
 
   await requireFreePort(TEST_PORT, "the test web server", "TEST_PORT");
-  await requireFreePort(TEST_MAIL_PORT, "the test mail catcher", "TEST_SMTP_PORT");
-  step(`Starting the test mail catcher on 127.0.0.1:${TEST_MAIL_PORT}`);
-  startChild("mail catcher", bin("tsx"), ["scripts/mail-catcher.ts"], {
-    env: { ...testEnv, CATCHER_PORT: String(TEST_MAIL_PORT) },
+  await requireFreePort(TEST_MAIL_PORT, "the test local inbox", "TEST_SMTP_PORT");
+  step(`Starting the test local inbox on 127.0.0.1:${TEST_MAIL_PORT}`);
+  startChild("local inbox", bin("tsx"), ["scripts/local-inbox.ts"], {
+    env: { ...testEnv, INBOX_PORT: String(TEST_MAIL_PORT) },
   });
   step(`Starting the production build on ${baseUrl}`);
   const server = startChild("web server", bin("next"), ["start", "-p", String(TEST_PORT), "-H", "127.0.0.1"], {

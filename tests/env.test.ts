@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { EnvError, parseEnv } from "@/lib/env";
 
 const valid = {
-  DATABASE_URL: "postgres://u:p@127.0.0.1:54329/arcwarden",
+  DATABASE_URL: "postgres://u:p@127.0.0.1:54329/benchclear",
   AUTH_SECRET: "x".repeat(32),
 };
 
@@ -10,7 +10,7 @@ describe("environment validation", () => {
   it("accepts the minimum and fills the documented defaults", () => {
     const env = parseEnv(valid);
     expect(env.APP_URL).toBe("http://localhost:3000");
-    expect(env.MAIL_TRANSPORT).toBe("catcher");
+    expect(env.MAIL_TRANSPORT).toBe("local-inbox");
     expect(env.SMTP_PORT).toBe(1025);
     expect(env.STORAGE_DRIVER).toBe("local");
   });

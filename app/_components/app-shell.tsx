@@ -26,7 +26,7 @@ export function AppShell({ navItems, user, children }: AppShellProps) {
 
       <header className="relative z-20 border-b border-stone-200 bg-white">
         <div className="mx-auto flex h-14 max-w-shell items-center gap-4 px-4 sm:px-6 lg:gap-8">
-          <Link href="/" className="-m-1 shrink-0 rounded-md p-1 no-underline" aria-label="Arcwarden — dashboard">
+          <Link href="/" className="-m-1 shrink-0 rounded-md p-1 no-underline" aria-label="Benchclear — dashboard">
             <Wordmark />
           </Link>
           <div className="ml-auto flex h-full items-center md:ml-0">
@@ -48,7 +48,7 @@ export function AppShell({ navItems, user, children }: AppShellProps) {
         <div className="mx-auto flex max-w-shell flex-col gap-2 px-4 py-4 sm:px-6 md:flex-row md:items-start md:justify-between md:gap-8">
           <Caution variant="compact" className="max-w-3xl" />
           <p className="shrink-0 text-xs leading-5 text-stone-500">
-            Arcwarden advises; it does not replace a qualified person.
+            Benchclear advises; it does not replace a qualified person.
           </p>
         </div>
       </footer>

@@ -1,4 +1,4 @@
-// Arcwarden's mark: a spark gap — two sphere terminals with an arc between them — standing on a
+// Benchclear's mark: a spark gap — two sphere terminals with an arc between them — standing on a
 // grounded base. Drawn inline (no image request); public/mark.svg is the same drawing for the icon.
 
 type MarkProps = { className?: string; title?: string };
@@ -40,7 +40,7 @@ export function Wordmark({ className = "" }: { className?: string }) {
   return (
     <span className={`inline-flex items-center gap-2 ${className}`}>
       <Mark className="size-7 shrink-0" />
-      <span className="text-[1.0625rem] font-semibold tracking-tight text-stone-900">Arcwarden</span>
+      <span className="text-[1.0625rem] font-semibold tracking-tight text-stone-900">Benchclear</span>
     </span>
   );
 }

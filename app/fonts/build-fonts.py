@@ -1,4 +1,4 @@
-"""Subset IBM Plex TTFs to the glyphs Arcwarden shows, map Greek omega/mu onto the ohm/micro glyphs
+"""Subset IBM Plex TTFs to the glyphs Benchclear shows, map Greek omega/mu onto the ohm/micro glyphs
 where a font lacks them, and rename the family (OFL: a modified version must not keep the Reserved
 Font Name "Plex")."""
 import sys
@@ -22,7 +22,7 @@ def patch(font):
             t.cmap[0x3BC] = t.cmap[0xB5]
     for rec in font["name"].names:
         if rec.nameID in (1, 3, 4, 6, 16, 17, 21):
-            s = rec.toUnicode().replace("IBM Plex", "Arcwarden").replace("IBMPlex", "Arcwarden")
+            s = rec.toUnicode().replace("IBM Plex", "Benchclear").replace("IBMPlex", "Benchclear")
             rec.string = s
 
 def web(src, dst):

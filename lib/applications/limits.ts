@@ -1,5 +1,5 @@
 // Upload limits, shared by the form (to refuse early with the same words) and the server (which
-// decides). 10 MB is decimal (SI, like every figure in Arcwarden): 10 000 000 bytes, which also
+// decides). 10 MB is decimal (SI, like every figure in Benchclear): 10 000 000 bytes, which also
 // stays below the 10 MiB that Next.js buffers for a request passing through proxy.ts.
 
 export const ATTACHMENT_MAX_BYTES = 10_000_000;

@@ -6,7 +6,7 @@ import { dictionary } from "@zxcvbn-ts/language-common";
 // (about 30 000 entries drawn from leaked-password corpora).
 
 const common = new Set<string>((dictionary["passwords-common"] as string[]).map((p) => p.toLowerCase()));
-const CONTEXT_WORDS = ["arcwarden", "aldermere", "password", "passwort", "qwerty"];
+const CONTEXT_WORDS = ["benchclear", "aldermere", "password", "passwort", "qwerty"];
 
 export function passwordProblem(password: string, context: { email?: string; name?: string } = {}): string | null {
   const lower = password.toLowerCase();

@@ -26,7 +26,7 @@ export type Calendar = {
   events: CalendarEvent[];
 };
 
-const PRODID = "-//Arcwarden//Permits//EN";
+const PRODID = "-//Benchclear//Permits//EN";
 
 /** Escapes a TEXT value (RFC 5545 §3.3.11); other control characters are dropped. */
 export function escapeText(value: string): string {

@@ -57,7 +57,7 @@ export async function calendarFeed(token: string, now = new Date()): Promise<str
   const config = env();
   const domain = senderDomain(config.MAIL_FROM);
   return buildCalendar({
-    name: `Arcwarden permits: ${user.name}`,
+    name: `Benchclear permits: ${user.name}`,
     events: rows.flatMap((p) =>
       permitEvents({ ...p, state: effectivePermitState(p, today) }, { appUrl: config.APP_URL, domain }),
     ),

@@ -279,7 +279,7 @@ function capacitanceLevelFinding(charged: Item[], rules: TierRules): Finding {
     unit: "%",
     threshold: 100,
     tier: within ? 0 : 1,
-    source: `${ts.charge.source}; shares summed across sources (Arcwarden's combination rule)`,
+    source: `${ts.charge.source}; shares summed across sources (Benchclear's combination rule)`,
     meaning: () =>
       `The ${charged.length} charged sources (${idList(charged)}) together use ${(total * 100).toFixed(1)} % of the ` +
       "touch-safe levels (each source's capacitance, charge or energy over the level for its voltage: " +

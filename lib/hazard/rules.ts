@@ -21,7 +21,7 @@ const CAPACITANCE_LEVELS =
   "IEC 60335-1 8.1.4 (quoted text, hazard-references §2b); the same levels in IEC 61010-1 6.3 (memory, §2a)";
 
 export const DEFAULT_RULES: TierRules = {
-  rulesVersion: "arcwarden-default-1",
+  rulesVersion: "benchclear-default-1",
   bodyResistance: t(500, "Ω", "worst-case hand to hand, common practice (hazard-references §3b)"),
   safeVoltage: t(60, "V", "IEC 60204-1 6.2.4: residual voltage at or below 60 V (hazard-references §6a)"),
   touchSafe: {

@@ -1,5 +1,5 @@
 // Reading and writing quantities the way people type them on a bench sheet ("4.7 nF", "30 kV",
-// "2 MΩ") and the way Arcwarden shows them (three significant digits, SI prefixes). Hand-written so
+// "2 MΩ") and the way Benchclear shows them (three significant digits, SI prefixes). Hand-written so
 // the browser bundle stays small; the tests check every prefix and conversion against a units library.
 
 export type Dimension =

@@ -23,7 +23,7 @@ export function createBoss(options: { connectionString?: string; max?: number } 
     connectionString: options.connectionString ?? env().DATABASE_URL,
     schema: BOSS_SCHEMA,
     max: options.max ?? 4,
-    application_name: "arcwarden-worker",
+    application_name: "benchclear-worker",
     // Completed jobs are bookkeeping only; keep a week of them for diagnosis.
     deleteAfterDays: 7,
   });

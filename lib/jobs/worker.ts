@@ -123,13 +123,13 @@ export async function startWorker(options: WorkerOptions = {}): Promise<RunningW
   };
 }
 
-const globalForWorker = globalThis as unknown as { arcwardenWorker?: Promise<RunningWorker> };
+const globalForWorker = globalThis as unknown as { benchclearWorker?: Promise<RunningWorker> };
 
 /** Starts the worker once per process (Next.js may call instrumentation more than once in dev). */
 export function startWorkerOnce(options: WorkerOptions = {}): Promise<RunningWorker> {
-  globalForWorker.arcwardenWorker ??= startWorker(options).catch((error) => {
-    globalForWorker.arcwardenWorker = undefined;
+  globalForWorker.benchclearWorker ??= startWorker(options).catch((error) => {
+    globalForWorker.benchclearWorker = undefined;
     throw error;
   });
-  return globalForWorker.arcwardenWorker;
+  return globalForWorker.benchclearWorker;
 }

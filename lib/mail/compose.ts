@@ -120,7 +120,7 @@ export async function composeOutboxMail(row: OutboxMail): Promise<ComposedMail> 
     headers: {
       // Machine-sent notifications: no vacation auto-replies back to us (RFC 3834).
       "Auto-Submitted": "auto-generated",
-      "X-Arcwarden-Kind": row.kind,
+      "X-Benchclear-Kind": row.kind,
     },
   });
   const raw = await new Promise<Buffer>((resolve, reject) =>

@@ -21,10 +21,10 @@ export function isPlainAddress(value: string): boolean {
   return value.length <= 254 && ADDRESS.test(value);
 }
 
-/** The domain part of MAIL_FROM ("Arcwarden <no-reply@arcwarden.test>" → "arcwarden.test"). */
+/** The domain part of MAIL_FROM ("Benchclear <no-reply@benchclear.test>" → "benchclear.test"). */
 export function senderDomain(mailFrom: string): string {
   const match = /@([A-Za-z0-9.-]+)>?\s*$/.exec(mailFrom.trim());
-  return match ? match[1].toLowerCase() : "arcwarden.invalid";
+  return match ? match[1].toLowerCase() : "benchclear.invalid";
 }
 
 /**

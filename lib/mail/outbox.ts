@@ -3,7 +3,7 @@ import { mailOutbox } from "@/db/schema";
 import type { DbOrTx } from "@/lib/audit";
 import { headerText } from "./headers";
 
-// Every e-mail Arcwarden sends, as data. Callers queue a message in the same transaction as the
+// Every e-mail Benchclear sends, as data. Callers queue a message in the same transaction as the
 // event that causes it; the outbox worker (lib/mail/actions.ts, run by lib/jobs/worker.ts) renders
 // the body from `kind` and `data` (emails/*.tsx) and sends it. A `dedupeKey` makes a message unique
 // per recipient (mail_outbox.dedupe_key is UNIQUE): queuing it twice is a no-op.
@@ -77,7 +77,7 @@ export function defaultSubject(message: MailMessage): string {
 function subjectFor(message: MailMessage): string {
   switch (message.kind) {
     case "invitation":
-      return "You are invited to Arcwarden";
+      return "You are invited to Benchclear";
     case "application_submitted":
       return `Review requested: ${message.data.title} (tier ${message.data.tier})`;
     case "application_returned":

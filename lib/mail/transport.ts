@@ -19,7 +19,7 @@ export type SmtpSettings = {
   secure: boolean;
   user?: string;
   password?: string;
-  /** The catcher speaks plain SMTP on 127.0.0.1; a relay gets STARTTLS when it offers it. */
+  /** The inbox speaks plain SMTP on 127.0.0.1; a relay gets STARTTLS when it offers it. */
   ignoreTLS: boolean;
   /** Milliseconds: connect, greeting, and inactivity on the socket. */
   connectionTimeout: number;
@@ -29,14 +29,14 @@ export type SmtpSettings = {
 
 export function smtpSettingsFromEnv(overrides: Partial<SmtpSettings> = {}): SmtpSettings {
   const e = env();
-  const catcher = e.MAIL_TRANSPORT === "catcher";
+  const inbox = e.MAIL_TRANSPORT === "local-inbox";
   return {
     host: e.SMTP_HOST,
     port: e.SMTP_PORT,
-    secure: catcher ? false : e.SMTP_SECURE,
-    user: catcher ? undefined : e.SMTP_USER,
-    password: catcher ? undefined : e.SMTP_PASSWORD,
-    ignoreTLS: catcher,
+    secure: inbox ? false : e.SMTP_SECURE,
+    user: inbox ? undefined : e.SMTP_USER,
+    password: inbox ? undefined : e.SMTP_PASSWORD,
+    ignoreTLS: inbox,
     connectionTimeout: 10_000,
     greetingTimeout: 10_000,
     socketTimeout: 60_000,
@@ -89,7 +89,7 @@ export function beginDelivery(
       connectionTimeout: settings.connectionTimeout,
       greetingTimeout: settings.greetingTimeout,
       socketTimeout: settings.socketTimeout,
-      name: "arcwarden.local",
+      name: "benchclear.local",
     });
 
     // envelope → data (354 received, body pushed) → finishing (dot written) → done

@@ -47,8 +47,8 @@ export function BenchCardDocument({
       title={`Bench card ${permit.number}`}
       author={data.institution.name}
       subject={`Bench card for permit ${permit.number}: ${data.apparatus.name}`}
-      creator="Arcwarden"
-      producer="Arcwarden"
+      creator="Benchclear"
+      producer="Benchclear"
       language="en-GB"
       creationDate={new Date(permit.issuedAt)}
     >

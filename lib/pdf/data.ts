@@ -26,7 +26,7 @@ import type { PrintData } from "./types";
 /** Bump when the printed layout changes so stored files are rendered again. */
 export const LAYOUT_VERSION = 1;
 
-const DEFAULT_INSTITUTION = "Arcwarden";
+const DEFAULT_INSTITUTION = "Benchclear";
 
 export type PermitHead = {
   id: string;

@@ -1,11 +1,11 @@
 import path from "node:path";
 import { Font } from "@react-pdf/renderer";
 
-// The permit's fonts: Arcwarden Sans and Mono as TTF (react-pdf is slow with WOFF), registered once
+// The permit's fonts: Benchclear Sans and Mono as TTF (react-pdf is slow with WOFF), registered once
 // per process. Paths are resolved from the project root, where `next start` and the scripts run.
 
-export const SANS = "Arcwarden Sans";
-export const MONO = "Arcwarden Mono";
+export const SANS = "Benchclear Sans";
+export const MONO = "Benchclear Mono";
 
 let registered = false;
 
@@ -15,11 +15,11 @@ export function registerFonts(): void {
   Font.register({
     family: SANS,
     fonts: [
-      { src: path.join(dir, "ArcwardenSans-Regular.ttf"), fontWeight: 400 },
-      { src: path.join(dir, "ArcwardenSans-Bold.ttf"), fontWeight: 700 },
+      { src: path.join(dir, "BenchclearSans-Regular.ttf"), fontWeight: 400 },
+      { src: path.join(dir, "BenchclearSans-Bold.ttf"), fontWeight: 700 },
     ],
   });
-  Font.register({ family: MONO, src: path.join(dir, "ArcwardenMono-Regular.ttf") });
+  Font.register({ family: MONO, src: path.join(dir, "BenchclearMono-Regular.ttf") });
   // No hyphenation: a split figure or permit number ("AW-2026-00-\n03") misreads at the bench, and
   // text read back by tools must match what was written.
   Font.registerHyphenationCallback((word) => [word]);

@@ -25,7 +25,7 @@ import {
 import { INK, STATE_LOOK, TIER_COLOURS } from "./theme";
 import type { PaperSize, PrintData } from "./types";
 
-// The permit as printed for the bench: Arcwarden's own layout. The first screenful answers "may this
+// The permit as printed for the bench: Benchclear's own layout. The first screenful answers "may this
 // run, who is responsible, how bad is it, what do I do before touching it, whom do I call"; the
 // details (sources, controls, signatures) follow. Large type for what is read from a step away.
 
@@ -154,8 +154,8 @@ export function PermitDocument({ data, size, qr }: { data: PrintData; size: Pape
       title={`Permit ${permit.number}`}
       author={data.institution.name}
       subject={`High-voltage permit ${permit.number}: ${data.event.title}`}
-      creator="Arcwarden"
-      producer="Arcwarden"
+      creator="Benchclear"
+      producer="Benchclear"
       language="en-GB"
       creationDate={new Date(permit.issuedAt)}
     >

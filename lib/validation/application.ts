@@ -25,7 +25,7 @@ const isoDay = z.iso.date({ error: "Enter a date (YYYY-MM-DD)." });
 const shortText = (max: number, what: string) =>
   z.string().trim().max(max, `Use at most ${max} characters for the ${what}.`);
 
-/** A person named on the application: a user of Arcwarden (userId) or someone outside it (name only). */
+/** A person named on the application: a user of Benchclear (userId) or someone outside it (name only). */
 export const namedPersonSchema = z.object({
   userId: z.uuid().nullable(),
   name: shortText(120, "name").min(1, "Enter the person's name."),

@@ -17,7 +17,7 @@ export const VERIFY_HEADERS: Readonly<Record<string, string>> = {
 
 const LIMITED_PAGE = `<!doctype html>
 <html lang="en-GB"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
-<meta name="robots" content="noindex, nofollow"><title>Too many checks · Arcwarden</title></head>
+<meta name="robots" content="noindex, nofollow"><title>Too many checks · Benchclear</title></head>
 <body style="font-family: system-ui, sans-serif; max-width: 28rem; margin: 2rem auto; padding: 0 1rem; color: #1c1917">
 <main id="main"><p style="text-transform: uppercase; letter-spacing: .05em; color: #57534e; font-size: .875rem">Permit status</p>
 <h1 style="font-size: 1.875rem; margin: .25rem 0">Too many checks</h1>

@@ -36,7 +36,7 @@ const data: PrintData = {
     revokedReason: null,
     conditions: [],
     verificationCode: code,
-    verificationUrl: `https://arcwarden.aldermere.test/verify/${code}`,
+    verificationUrl: `https://benchclear.aldermere.test/verify/${code}`,
   },
   holderName: "Imogen Tallis",
   event: {

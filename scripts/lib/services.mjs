@@ -65,7 +65,7 @@ function hashFile(file) {
 /** Installs npm dependencies when node_modules is missing or older than package-lock.json. */
 export function ensureNodeModules() {
   const lock = path.join(root, "package-lock.json");
-  const stamp = path.join(root, "node_modules", ".arcwarden-lock-hash");
+  const stamp = path.join(root, "node_modules", ".benchclear-lock-hash");
   const want = hashFile(lock);
   const have = fs.existsSync(stamp) ? fs.readFileSync(stamp, "utf8").trim() : "";
   if (have === want && fs.existsSync(path.join(root, "node_modules", ".bin", "next"))) return;
@@ -222,7 +222,7 @@ export function localEnv() {
   if (Object.keys(additions).length > 0) {
     const header = fs.existsSync(file)
       ? ""
-      : "# Written by the Arcwarden scripts for this machine only (git-ignored). See .env.example.\n";
+      : "# Written by the Benchclear scripts for this machine only (git-ignored). See .env.example.\n";
     fs.appendFileSync(
       file,
       header +
@@ -243,7 +243,7 @@ function pickDefined(env) {
 // PostgreSQL
 
 export const PG_PORT = Number(process.env.PGPORT_LOCAL ?? 54329);
-export const PG_USER = "arcwarden";
+export const PG_USER = "benchclear";
 
 function pgBinDir() {
   const base = "/usr/lib/postgresql";
@@ -268,7 +268,68 @@ function clusterDir() {
   const reachable = spawnSync("runuser", ["-u", "postgres", "--", "test", "-x", dataDir]).status === 0;
   if (reachable) return preferred;
   const id = crypto.createHash("sha256").update(root).digest("hex").slice(0, 12);
-  return `/var/tmp/arcwarden-pg-${id}`;
+  const dir = `/var/tmp/benchclear-pg-${id}`;
+  // A cluster made before the product was renamed lives under its former name: move it once.
+  const legacy = `/var/tmp/arcwarden-pg-${id}`;
+  if (!fs.existsSync(dir) && fs.existsSync(path.join(legacy, "PG_VERSION"))) {
+    if (fs.existsSync(path.join(legacy, "postmaster.pid"))) {
+      throw new SetupError(
+        `A PostgreSQL cluster from before the rename is still running in ${legacy}. Stop it ` +
+          `(runuser -u postgres -- pg_ctl stop -D ${legacy}) and run this command again; it is then moved to ${dir}.`,
+      );
+    }
+    fs.renameSync(legacy, dir);
+    if (fs.existsSync(legacy + ".log")) fs.renameSync(legacy + ".log", dir + ".log");
+  }
+  return dir;
+}
+
+const LEGACY_PG_USER = "arcwarden";
+
+/**
+ * A local cluster created before the rename has its superuser and demo database under the former
+ * name. Adds the new superuser with the same local password and renames the demo database, so a
+ * developer's `.data` keeps working; says what to run when that cannot be done.
+ */
+function adoptLegacyCluster(env, bin) {
+  const tryAs = (user, sql, database = "postgres") =>
+    spawnSync(
+      path.join(bin, "psql"),
+      [
+        "-h",
+        "127.0.0.1",
+        "-p",
+        String(PG_PORT),
+        "-U",
+        user,
+        "-d",
+        database,
+        "-v",
+        "ON_ERROR_STOP=1",
+        "-qAt",
+        "-c",
+        sql,
+      ],
+      { encoding: "utf8", env: { ...process.env, PGPASSWORD: env.LOCAL_PG_PASSWORD } },
+    );
+  const probe = tryAs(PG_USER, "SELECT 1");
+  if (probe.status === 0 || !/role "benchclear" does not exist/.test(probe.stderr)) return;
+  const password = String(env.LOCAL_PG_PASSWORD).replace(/'/g, "''");
+  const create = tryAs(
+    LEGACY_PG_USER,
+    `CREATE ROLE ${PG_USER} SUPERUSER CREATEDB CREATEROLE LOGIN PASSWORD '${password}'`,
+  );
+  if (create.status !== 0) {
+    throw new SetupError(
+      `The local cluster in .data/ was made under the product's former name and could not be adopted ` +
+        `(${create.stderr.trim()}). Remove it and start again: rm -rf .data (the local demo data is re-created).`,
+    );
+  }
+  step("Adopted the local cluster made under the product's former name");
+  const dbs = tryAs(PG_USER, "SELECT datname FROM pg_database").stdout.split("\n");
+  if (dbs.includes(LEGACY_PG_USER) && !dbs.includes("benchclear")) {
+    tryAs(PG_USER, `ALTER DATABASE ${LEGACY_PG_USER} RENAME TO benchclear`);
+  }
 }
 
 function asPostgres(cmd, args, options = {}) {
@@ -293,7 +354,7 @@ function clusterRunning(bin, dir) {
 
 /**
  * Brings up the project-local PostgreSQL cluster (install, initdb, start) and makes sure the
- * `arcwarden` role exists with the local password. Returns { startedHere } so the caller stops only
+ * `benchclear` role exists with the local password. Returns { startedHere } so the caller stops only
  * what it started.
  */
 export async function pgUp(env) {
@@ -327,6 +388,7 @@ export async function pgUp(env) {
 
   if (clusterRunning(bin, dir)) {
     if (!pgIsUp(bin)) await waitForPg(bin);
+    adoptLegacyCluster(env, bin);
     return { startedHere: false, bin, dir };
   }
   await requireFreePort(PG_PORT, "PostgreSQL", "PGPORT_LOCAL");
@@ -353,6 +415,7 @@ export async function pgUp(env) {
   }
   await waitForPg(bin);
   markStartedByScript();
+  adoptLegacyCluster(env, bin);
   return { startedHere: true, bin, dir };
 }
 
@@ -500,7 +563,7 @@ export function sourceHash() {
 
 /** Runs `next build` into distDir unless its recorded source hash matches. */
 export function ensureBuild(env, distDir = ".next") {
-  const stampFile = path.join(root, distDir, ".arcwarden-source-hash");
+  const stampFile = path.join(root, distDir, ".benchclear-source-hash");
   const want = sourceHash();
   const have = fs.existsSync(stampFile) ? fs.readFileSync(stampFile, "utf8").trim() : "";
   if (have === want && fs.existsSync(path.join(root, distDir, "BUILD_ID"))) {

@@ -12,7 +12,7 @@ describe("the production build", () => {
   it("serves the sign-in page with the product name, the caution and security headers", async () => {
     const res = await http("/sign-in");
     expect(res.status).toBe(200);
-    expect(res.text).toContain("Sign in to Arcwarden");
+    expect(res.text).toContain("Sign in to Benchclear");
     expect(res.text).toContain("engineering estimate");
     expect(res.text).toContain("qualified person");
     const csp = res.headers.get("content-security-policy") ?? "";

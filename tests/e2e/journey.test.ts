@@ -30,7 +30,7 @@ requireDatabase();
 // application from it with a photo; the department's reviewer returns it, the instructor revises,
 // the reviewer recommends and the safety officer approves with their password; the instructor
 // downloads the permit; its QR page shows it active on a phone, then revoked once the officer
-// revokes it; and the daily job's reminder mail reaches the catcher once when the clock is moved.
+// revokes it; and the daily job's reminder mail reaches the local inbox once when the clock is moved.
 // Every page is checked with axe-core; screenshots of the main screens go to docs/screenshots/.
 
 /** The desktop size the screenshots are taken at, and an iPhone 12–15 class screen in CSS pixels. */
@@ -431,7 +431,7 @@ describe("the whole job, from invitation to reminder, in a real browser", () => 
   });
 
   it(
-    "7. a still-active permit's reminder reaches the catcher once when the clock is moved",
+    "7. a still-active permit's reminder reaches the local inbox once when the clock is moved",
     { timeout: 60_000 },
     async () => {
       const restore = await useTimeZone("UTC");

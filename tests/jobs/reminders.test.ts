@@ -1,6 +1,6 @@
 // The daily permit job: which reminder is due when (calendar arithmetic in the institution's time
 // zone), that each goes out once whatever runs it and however often, and that renewed and revoked
-// permits get none. Runs against the test database and the real local mail catcher.
+// permits get none. Runs against the test database and the real local inbox.
 //
 // Every injected clock is at or before the real present, so the job never expires another test's
 // permit early: a run "as of yesterday" only touches permits that had ended by yesterday.

@@ -1,6 +1,6 @@
 // Fixtures for the mail and job tests: permits inserted straight into the test database (users, an
 // application with a valid frozen revision and its assessment, a reviewer's signature, the permit),
-// the local mail catcher's store (the JSON files scripts/mail-catcher.ts writes), and child
+// the local inbox's store (the JSON files scripts/local-inbox.ts writes), and child
 // processes that run the worker code as a separate Node.js process.
 import { spawn } from "node:child_process";
 import fs from "node:fs";
@@ -174,7 +174,7 @@ export async function outboxRowsTo(addresses: string[]) {
 }
 
 // ---------------------------------------------------------------------------------------------
-// The mail catcher's store
+// The local inbox's store
 
 export type Caught = {
   id: string;
@@ -189,14 +189,14 @@ export type Caught = {
   attachments: { filename: string | null; contentType: string; size: number; content: string }[];
 };
 
-export function catcherDir(): string {
-  const dir = process.env.MAIL_CATCHER_DIR;
-  if (!dir) throw new Error("MAIL_CATCHER_DIR is not set: run the tests with `npm test`, which starts the catcher.");
+export function inboxDir(): string {
+  const dir = process.env.LOCAL_INBOX_DIR;
+  if (!dir) throw new Error("LOCAL_INBOX_DIR is not set: run the tests with `npm test`, which starts the local inbox.");
   return dir;
 }
 
 export function caughtTo(address: string): Caught[] {
-  const dir = catcherDir();
+  const dir = inboxDir();
   if (!fs.existsSync(dir)) return [];
   return fs
     .readdirSync(dir)
@@ -206,9 +206,9 @@ export function caughtTo(address: string): Caught[] {
     .filter((m) => m.envelope.to.some((t) => t.toLowerCase() === address.toLowerCase()));
 }
 
-export function catcherPort(): number {
+export function inboxPort(): number {
   const port = Number(process.env.SMTP_PORT);
-  if (!port) throw new Error("SMTP_PORT is not set: run the tests with `npm test`, which starts the catcher.");
+  if (!port) throw new Error("SMTP_PORT is not set: run the tests with `npm test`, which starts the local inbox.");
   return port;
 }
 

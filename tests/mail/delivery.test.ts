@@ -1,4 +1,4 @@
-// The outbox against the real local SMTP catcher (scripts/mail-catcher.ts, started by `npm test`):
+// The outbox against the real local inbox (scripts/local-inbox.ts, started by `npm test`):
 // every kind of mail reaches its recipient with an HTML and a text part and links that open the
 // right page; header injection through titles and names is neutralised; an SMTP server that is down
 // delays mail and loses none; concurrent and crashing workers never send a message twice.
@@ -16,7 +16,7 @@ import { createUser, requireDatabase, uniq } from "../support/db";
 import { baseUrl, http, signIn } from "../support/http";
 import {
   caughtTo,
-  catcherPort,
+  inboxPort,
   closedPort,
   createPermitFixture,
   outboxRowsTo,
@@ -36,10 +36,10 @@ function links(text: string): URL[] {
 }
 
 function ofKind(address: string, kind: string): Caught[] {
-  return caughtTo(address).filter((m) => m.headers["x-arcwarden-kind"] === kind);
+  return caughtTo(address).filter((m) => m.headers["x-benchclear-kind"] === kind);
 }
 
-describe("every kind of mail, through the real catcher", () => {
+describe("every kind of mail, through the real inbox", () => {
   it("reaches the right recipient with an HTML and a text part, says why, and links to the right page", async () => {
     const f = await createPermitFixture({ validFrom: "2098-03-01", validTo: "2098-05-29" });
     const officer = await createUser({ roles: ["safety_officer"] });
@@ -152,8 +152,8 @@ describe("every kind of mail, through the real catcher", () => {
     }
 
     // Nobody else got these: the operator only the revocation, the officer only the recommendation.
-    expect(caughtTo(f.operator.email).map((m) => m.headers["x-arcwarden-kind"])).toEqual(["permit_revoked"]);
-    expect(caughtTo(officer.email).map((m) => m.headers["x-arcwarden-kind"])).toEqual(["application_recommended"]);
+    expect(caughtTo(f.operator.email).map((m) => m.headers["x-benchclear-kind"])).toEqual(["permit_revoked"]);
+    expect(caughtTo(officer.email).map((m) => m.headers["x-benchclear-kind"])).toEqual(["application_recommended"]);
     // The return comments are quoted in both parts.
     const returned = ofKind(f.holder.email, "application_returned")[0];
     expect(returned.text).toContain("> Add the bleeder.\n> And the barrier.");
@@ -234,7 +234,7 @@ describe("header injection", () => {
 describe("when SMTP fails", () => {
   it("a server that is down delays mail and loses none: each row is sent once it is back", async () => {
     const down = { ...smtpSettingsFromEnv(), port: await closedPort() };
-    const up = { ...smtpSettingsFromEnv(), port: catcherPort() };
+    const up = { ...smtpSettingsFromEnv(), port: inboxPort() };
     const addresses = [1, 2, 3].map(() => `${uniq("outage")}@example.test`);
     for (const to of addresses)
       await queue(to, {
@@ -294,8 +294,8 @@ describe("when SMTP fails", () => {
       });
       await waitFor(async () => ((await outboxRowsTo([to]))[0]?.attempts ?? 0) >= 2);
       expect(caughtTo(to)).toEqual([]);
-      smtp = { ...smtp, port: catcherPort() };
-      // The row is marked sent just before the final dot; the catcher has the message a moment later.
+      smtp = { ...smtp, port: inboxPort() };
+      // The row is marked sent just before the final dot; the local inbox has the message a moment later.
       await waitFor(() => caughtTo(to).length === 1);
       const [row] = await outboxRowsTo([to]);
       expect(row.status).toBe("sent");
@@ -336,7 +336,7 @@ describe("concurrent and crashing workers", () => {
     const ids = rows.map((r) => r.id);
     const sentBy = [...a.sent, ...b.sent].filter((id) => ids.includes(id));
     expect(sentBy.sort()).toEqual([...ids].sort());
-    const domain = senderDomain(process.env.MAIL_FROM ?? "Arcwarden <no-reply@arcwarden.test>");
+    const domain = senderDomain(process.env.MAIL_FROM ?? "Benchclear <no-reply@benchclear.test>");
     for (const row of rows) {
       const caught = caughtTo(row.toAddress);
       expect(caught).toHaveLength(1);

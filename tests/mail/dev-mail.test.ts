@@ -1,4 +1,4 @@
-// /dev/mail and its API over HTTP against the production build (MAIL_TRANSPORT=catcher in tests):
+// /dev/mail and its API over HTTP against the production build (MAIL_TRANSPORT=local-inbox in tests):
 // an admin sees each caught message with its HTML in a sandboxed frame and its text part.
 import { describe, expect, it } from "vitest";
 import { getDb } from "@/db";
@@ -49,7 +49,7 @@ describe("/dev/mail", () => {
     const iframe = /<iframe[^>]*>/.exec(page.text)?.[0] ?? "";
     expect(iframe).toMatch(/sandbox=""/);
     expect(iframe).toMatch(/srcdoc="&lt;!DOCTYPE html&gt;/i);
-    expect(page.text).toContain("You are invited to Arcwarden");
+    expect(page.text).toContain("You are invited to Benchclear");
     expect((await http("/api/dev/mail/..%2F..%2Fetc%2Fpasswd", { cookie })).status).toBe(404);
     expect((await http("/api/dev/mail/1700000000000-zzzzzzzz", { cookie })).status).toBe(404);
   });

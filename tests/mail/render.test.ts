@@ -155,10 +155,10 @@ describe("headers", () => {
   });
 
   it("gives an outbox row one Message-ID for every attempt, unique across database resets", () => {
-    const a = outboxMessageId({ id: 7, createdAt: new Date("2026-05-01T10:00:00Z") }, "arcwarden.test");
-    expect(a).toBe(outboxMessageId({ id: 7, createdAt: new Date("2026-05-01T10:00:00Z") }, "arcwarden.test"));
-    expect(a).not.toBe(outboxMessageId({ id: 7, createdAt: new Date("2026-05-02T10:00:00Z") }, "arcwarden.test"));
-    expect(a).toMatch(/^<[^<>@\s]+@arcwarden\.test>$/);
+    const a = outboxMessageId({ id: 7, createdAt: new Date("2026-05-01T10:00:00Z") }, "benchclear.test");
+    expect(a).toBe(outboxMessageId({ id: 7, createdAt: new Date("2026-05-01T10:00:00Z") }, "benchclear.test"));
+    expect(a).not.toBe(outboxMessageId({ id: 7, createdAt: new Date("2026-05-02T10:00:00Z") }, "benchclear.test"));
+    expect(a).toMatch(/^<[^<>@\s]+@benchclear\.test>$/);
   });
 });
 

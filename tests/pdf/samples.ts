@@ -123,7 +123,7 @@ export function samplePrintData(tier: Tier, overrides: Partial<PrintData["permit
       revokedReason: null,
       conditions: tier >= 2 ? ["Run only with the lecture theatre doors closed."] : [],
       verificationCode: code,
-      verificationUrl: `https://arcwarden.aldermere.test/verify/${code}`,
+      verificationUrl: `https://benchclear.aldermere.test/verify/${code}`,
       ...overrides,
     },
     holderName: "Imogen Tallis",

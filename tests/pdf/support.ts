@@ -224,7 +224,7 @@ export async function revokeFixture(
 // --- Reading PDFs back ------------------------------------------------------------------------
 
 function tempFile(bytes: Buffer, ext: string): string {
-  const file = path.join(os.tmpdir(), `arcwarden-pdf-${crypto.randomBytes(6).toString("hex")}.${ext}`);
+  const file = path.join(os.tmpdir(), `benchclear-pdf-${crypto.randomBytes(6).toString("hex")}.${ext}`);
   fs.writeFileSync(file, bytes);
   return file;
 }

@@ -148,7 +148,7 @@ describe("review and permits over HTTP", () => {
     const csv = await http("/api/permits/export.csv", { cookie: cookie.officer });
     expect(csv.status).toBe(200);
     expect(csv.headers.get("content-type")).toMatch(/^text\/csv/);
-    expect(csv.headers.get("content-disposition")).toMatch(/^attachment; filename="arcwarden-permits-/);
+    expect(csv.headers.get("content-disposition")).toMatch(/^attachment; filename="benchclear-permits-/);
     const line = csv.text.split("\r\n").find((l) => l.startsWith(approved.json?.permit.number));
     expect(line).toContain(",'=2+5 sphere gap night,");
 

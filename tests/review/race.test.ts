@@ -15,8 +15,8 @@ requireDatabase();
 // parallel approvals of one revision, repeated. Each round uses 20 different safety officers, so the
 // only thing that can stop the 19 is the guarded transition and the unique (revision, step) key.
 const PARALLEL = 20;
-// 5 rounds by default (the issue); security.md's 50 with ARCWARDEN_RACE_ROUNDS=50.
-const ROUNDS = Number(process.env.ARCWARDEN_RACE_ROUNDS ?? 5);
+// 5 rounds by default (the issue); security.md's 50 with BENCHCLEAR_RACE_ROUNDS=50.
+const ROUNDS = Number(process.env.BENCHCLEAR_RACE_ROUNDS ?? 5);
 const tier3 = DEFAULT_CHAIN_RULES.tiers[3].requirements.map((r) => r.id);
 
 describe("concurrent approvals", () => {

@@ -7,7 +7,7 @@ import { LocalStorage, newKey, type Storage } from "@/lib/storage";
 describe("LocalStorage (lib/storage/index.ts)", () => {
   let root: string;
   beforeAll(async () => {
-    root = await fs.mkdtemp(path.join(os.tmpdir(), "arcwarden-storage-"));
+    root = await fs.mkdtemp(path.join(os.tmpdir(), "benchclear-storage-"));
   });
   afterAll(async () => {
     await fs.rm(root, { recursive: true, force: true });
@@ -47,7 +47,7 @@ describe("getStorage()", () => {
       vi.resetModules();
       Object.assign(process.env, {
         STORAGE_DRIVER: "s3",
-        S3_BUCKET: "arcwarden-test",
+        S3_BUCKET: "benchclear-test",
         S3_ENDPOINT: "https://s3.test.invalid",
         S3_FORCE_PATH_STYLE: "true",
       });

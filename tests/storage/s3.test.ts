@@ -6,7 +6,7 @@ import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from "vitest
 import { S3Storage } from "@/lib/storage/s3";
 
 const ENDPOINT = "https://s3.test.invalid";
-const BUCKET = "arcwarden-test";
+const BUCKET = "benchclear-test";
 
 type Stored = { body: Buffer; contentType: string };
 const objects = new Map<string, Stored>();

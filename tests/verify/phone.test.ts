@@ -10,7 +10,7 @@ requireDatabase();
 
 // The page a permit's QR code opens, in a real browser on a phone-sized screen: the status reads at a
 // glance (large, in words, with colour), the page fits the screen, it passes axe's serious checks,
-// and a revocation shows on reload. Set ARCWARDEN_SCREENSHOTS=<dir> to keep screenshots for review.
+// and a revocation shows on reload. Set BENCHCLEAR_SCREENSHOTS=<dir> to keep screenshots for review.
 
 /** iPhone 12–15 class screen in CSS pixels. */
 const PHONE = { width: 390, height: 844 };
@@ -39,7 +39,7 @@ describe("the verification page on a phone", () => {
     expect(await page.getByText(fixture.permit.number).isVisible()).toBe(true);
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(PHONE.width);
     expect(await seriousA11yViolations(page)).toEqual([]);
-    const screenshots = process.env.ARCWARDEN_SCREENSHOTS;
+    const screenshots = process.env.BENCHCLEAR_SCREENSHOTS;
     if (screenshots) await page.screenshot({ path: path.join(screenshots, "verify-active.png"), fullPage: true });
 
     await revokeFixture(fixture);

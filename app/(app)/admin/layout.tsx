@@ -9,7 +9,7 @@ export default async function AdminLayout({ children }: { children: ReactNode })
   const tabs = [
     { href: "/admin/users", label: "Users", show: can(user, "admin.users") },
     { href: "/admin/rules", label: "Rules", show: can(user, "admin.rules") },
-    { href: "/dev/mail", label: "Caught mail", show: can(user, "dev.mail") && env().MAIL_TRANSPORT === "catcher" },
+    { href: "/dev/mail", label: "Local inbox", show: can(user, "dev.mail") && env().MAIL_TRANSPORT === "local-inbox" },
   ].filter((t) => t.show);
   return (
     <>

@@ -11,7 +11,7 @@ export default async function ForbiddenPage() {
     <>
       <PageHeader
         title="Not allowed"
-        description="Your roles do not include this page. If you need it, ask your Arcwarden admin."
+        description="Your roles do not include this page. If you need it, ask your Benchclear admin."
       />
       <ButtonLink href="/" variant="secondary">
         Back to the dashboard

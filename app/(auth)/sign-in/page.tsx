@@ -12,7 +12,7 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
   if (await getCurrentUser()) redirect(returnTo);
   return (
     <div className="rounded-xl border border-stone-200 bg-white p-6 shadow-sm sm:p-8">
-      <h1 className="text-xl font-semibold text-stone-900">Sign in to Arcwarden</h1>
+      <h1 className="text-xl font-semibold text-stone-900">Sign in to Benchclear</h1>
       <p className="mt-1 text-sm text-stone-600">Hazard assessments, reviews and permits for high-voltage set-ups.</p>
       <SignInForm from={returnTo} />
     </div>

@@ -60,7 +60,7 @@ export function SignInForm({ from }: { from: string }) {
         {isSubmitting ? "Signing in…" : "Sign in"}
       </Button>
       <p className="text-xs text-stone-600">
-        No account? Ask your institution&rsquo;s Arcwarden admin for an invitation.
+        No account? Ask your institution&rsquo;s Benchclear admin for an invitation.
       </p>
     </form>
   );

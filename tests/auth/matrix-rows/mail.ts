@@ -5,7 +5,7 @@ import { users } from "@/db/schema";
 import { hashCalendarToken } from "@/lib/calendar/queries";
 import { adminOnly, everyone, signedIn, type MatrixRow } from "../matrix-kit";
 
-// Mail and calendars: the caught-mail page and its API (admins, catcher only), the calendar feed
+// Mail and calendars: the caught-mail page and its API (admins, inbox only), the calendar feed
 // (public: the secret token is the credential) and the signed-in user's own feed token.
 export const MAIL_ROWS: MatrixRow[] = [
   { route: "/dev/mail", method: "PAGE", expect: adminOnly(200, "→/sign-in", "→/forbidden") },

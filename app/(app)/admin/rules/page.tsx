@@ -93,7 +93,7 @@ export default async function AdminRulesPage() {
             <TierRulesForm rulesJson={JSON.stringify(tier.rules, null, 2)} />
           </Card>
           <Card title="Threshold history">
-            <History rows={tierHistory} builtIn="the engine's defaults (arcwarden-default-1)" />
+            <History rows={tierHistory} builtIn="the engine's defaults (benchclear-default-1)" />
           </Card>
         </div>
       </div>

@@ -8,14 +8,14 @@ import { formatDateTime } from "@/app/_components/format";
 import { PageHeader } from "@/app/_components/page-header";
 import { Stat, StatList } from "@/app/_components/stat";
 import { requirePageUser } from "@/lib/auth/guards";
-import { catcherEnabled, getCaught, listCaught, type CaughtSummary } from "@/lib/mail/catcher";
+import { inboxEnabled, getCaught, listCaught, type CaughtSummary } from "@/lib/mail/local-inbox";
 import { listOutbox, outboxCounts, type OutboxListRow } from "@/lib/mail/queries";
 
-// /dev/mail — admins only, and only while the local mail catcher is the configured transport: every
-// message the catcher received, with its HTML part (in a sandboxed frame: no scripts, no same-origin
+// /dev/mail — admins only, and only while the local inbox is the configured transport: every
+// message the local inbox received, with its HTML part (in a sandboxed frame: no scripts, no same-origin
 // access, the page's CSP applies) and its text part, plus outbox rows that wait or failed.
 
-export const metadata: Metadata = { title: "Caught mail" };
+export const metadata: Metadata = { title: "Local inbox" };
 export const dynamic = "force-dynamic";
 
 function size(bytes: number): string {
@@ -74,7 +74,7 @@ const outboxColumns: Column<OutboxListRow>[] = [
 
 export default async function DevMailPage({ searchParams }: { searchParams: Promise<{ id?: string | string[] }> }) {
   await requirePageUser("dev.mail", "/dev/mail");
-  if (!catcherEnabled()) notFound();
+  if (!inboxEnabled()) notFound();
   const { id: rawId } = await searchParams;
   const id = typeof rawId === "string" ? rawId : undefined;
   const [messages, counts, pending, selected] = await Promise.all([
@@ -87,8 +87,8 @@ export default async function DevMailPage({ searchParams }: { searchParams: Prom
   return (
     <>
       <PageHeader
-        title="Caught mail"
-        description="Mail Arcwarden sent to the local mail catcher. Nothing here left this machine. Shown only while MAIL_TRANSPORT=catcher."
+        title="Local inbox"
+        description="Mail Benchclear sent to the local inbox. Nothing here left this machine. Shown only while MAIL_TRANSPORT=local-inbox."
       />
       <div className="mb-6">
         <StatList>
@@ -170,7 +170,7 @@ export default async function DevMailPage({ searchParams }: { searchParams: Prom
       <div className="flex flex-col gap-6">
         <Card title="Received" flush>
           <DataTable
-            caption="Messages the mail catcher received, newest first"
+            caption="Messages the local inbox received, newest first"
             columns={messageColumns(selected?.id)}
             rows={messages}
             rowKey={(m) => m.id}

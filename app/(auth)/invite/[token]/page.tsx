@@ -21,8 +21,8 @@ export default async function InvitePage({ params }: { params: Promise<{ token: 
         </>
       ) : (
         <Alert tone="warn" className="mt-4">
-          This invitation link is not valid any more: it was used, replaced or has expired. Ask your Arcwarden admin for
-          a new one.
+          This invitation link is not valid any more: it was used, replaced or has expired. Ask your Benchclear admin
+          for a new one.
         </Alert>
       )}
     </div>

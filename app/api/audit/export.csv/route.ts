@@ -14,5 +14,5 @@ export const GET = route({ access: "audit.export", query: auditRangeSchema }, as
   const span = [query.from?.toISOString().slice(0, 10), query.to?.toISOString().slice(0, 10)]
     .filter(Boolean)
     .join("_to_");
-  return csvResponse(`arcwarden-audit${span ? `-${span}` : ""}.csv`, body);
+  return csvResponse(`benchclear-audit${span ? `-${span}` : ""}.csv`, body);
 });

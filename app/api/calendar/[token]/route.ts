@@ -13,7 +13,7 @@ export const GET = route({ access: "public" }, async ({ params }) => {
   return new Response(ics, {
     headers: {
       "Content-Type": "text/calendar; charset=utf-8",
-      "Content-Disposition": 'inline; filename="arcwarden-permits.ics"',
+      "Content-Disposition": 'inline; filename="benchclear-permits.ics"',
       "Cache-Control": "private, no-store",
       // The token must not leak through links followed from a calendar app's web view.
       "Referrer-Policy": "no-referrer",

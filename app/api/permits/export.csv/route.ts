@@ -40,5 +40,5 @@ export const GET = route({ access: "permit.read.any" }, async ({ user }) => {
       r.revokedReason,
     ]),
   );
-  return csvResponse(`arcwarden-permits-${new Date().toISOString().slice(0, 10)}.csv`, body);
+  return csvResponse(`benchclear-permits-${new Date().toISOString().slice(0, 10)}.csv`, body);
 });

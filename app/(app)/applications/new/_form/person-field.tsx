@@ -8,7 +8,7 @@ import { controlClasses, FieldShell } from "@/app/_components/field";
 import { apiFetch } from "@/lib/client/api";
 import type { ApplicationDraft } from "@/lib/validation/application";
 
-// A person named on the application: a name, optionally linked to an Arcwarden account (found by
+// A person named on the application: a name, optionally linked to an Benchclear account (found by
 // name) so that the review chain knows they may not decide on it. Typing over a linked name unlinks it.
 
 type Person = { id: string; name: string; departmentName: string | null };
@@ -55,7 +55,7 @@ export function PersonField({ name, label, required }: PersonFieldProps) {
       <FieldShell
         label={label}
         required={required}
-        hint={linked ? "Linked to an Arcwarden account." : "A name, or find the person's Arcwarden account."}
+        hint={linked ? "Linked to an Benchclear account." : "A name, or find the person's Benchclear account."}
         error={error?.message}
       >
         {(a11y) => <input {...a11y} {...nameField} maxLength={120} autoComplete="off" className={controlClasses} />}
@@ -70,7 +70,7 @@ export function PersonField({ name, label, required }: PersonFieldProps) {
         matches.length > 0 && (
           <div>
             <p id={listId} className="text-xs text-stone-600">
-              Arcwarden accounts matching “{query}”:
+              Benchclear accounts matching “{query}”:
             </p>
             <ul aria-labelledby={listId} className="mt-1 flex flex-wrap gap-1.5">
               {matches.map((p) => (

@@ -1,5 +1,5 @@
-// The local mail catcher: an SMTP server on 127.0.0.1 that accepts every message and keeps it as a
-// JSON file (parsed with mailparser) under MAIL_CATCHER_DIR, newest last. Started by `npm start`,
+// The local inbox: an SMTP server on 127.0.0.1 that accepts every message and keeps it as a
+// JSON file (parsed with mailparser) under LOCAL_INBOX_DIR, newest last. Started by `npm start`,
 // `npm run dev` and `npm test`; admins read it at /dev/mail. Never used in production.
 import crypto from "node:crypto";
 import fs from "node:fs";
@@ -7,8 +7,8 @@ import path from "node:path";
 import { simpleParser } from "mailparser";
 import { SMTPServer } from "smtp-server";
 
-const port = Number(process.env.CATCHER_PORT ?? 1025);
-const dir = path.resolve(process.env.MAIL_CATCHER_DIR ?? ".data/mail");
+const port = Number(process.env.INBOX_PORT ?? 1025);
+const dir = path.resolve(process.env.LOCAL_INBOX_DIR ?? ".data/mail");
 fs.mkdirSync(dir, { recursive: true });
 
 const MAX_MESSAGE_BYTES = 30 * 1024 * 1024;
@@ -17,7 +17,7 @@ const server = new SMTPServer({
   authOptional: true,
   disabledCommands: ["STARTTLS"],
   size: MAX_MESSAGE_BYTES,
-  banner: "Arcwarden mail catcher",
+  banner: "Benchclear local inbox",
   onData(stream, session, callback) {
     simpleParser(stream)
       .then((mail) => {
@@ -55,8 +55,8 @@ const server = new SMTPServer({
   },
 });
 
-server.on("error", (error) => console.error("[mail catcher]", error.message));
-server.listen(port, "127.0.0.1", () => console.log(`  mail catcher listening on 127.0.0.1:${port} → ${dir}`));
+server.on("error", (error) => console.error("[local inbox]", error.message));
+server.listen(port, "127.0.0.1", () => console.log(`  local inbox listening on 127.0.0.1:${port} → ${dir}`));
 
 const stop = () => server.close(() => process.exit(0));
 process.on("SIGTERM", stop);

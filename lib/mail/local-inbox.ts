@@ -4,9 +4,9 @@ import path from "node:path";
 import { z } from "zod";
 import { env } from "@/lib/env";
 
-// Reads the local mail catcher's store (scripts/mail-catcher.ts writes one JSON file per received
-// message into MAIL_CATCHER_DIR). Only for development and tests: /dev/mail and its API refuse to
-// work unless MAIL_TRANSPORT=catcher.
+// Reads the local inbox's store (scripts/local-inbox.ts writes one JSON file per received
+// message into LOCAL_INBOX_DIR). Only for development and tests: /dev/mail and its API refuse to
+// work unless MAIL_TRANSPORT=local-inbox.
 
 export const CAUGHT_ID = /^\d{10,16}-[0-9a-f]{8}$/;
 const LIST_LIMIT = 200;
@@ -40,14 +40,14 @@ export type CaughtSummary = Omit<CaughtMessage, "text" | "html" | "headers" | "a
   deliveries: number;
 };
 
-export function catcherEnabled(): boolean {
-  return env().MAIL_TRANSPORT === "catcher";
+export function inboxEnabled(): boolean {
+  return env().MAIL_TRANSPORT === "local-inbox";
 }
 
-export function catcherDir(): string {
+export function inboxDir(): string {
   // Set per test database by scripts/test.mjs; `npm start` uses the default.
   // The folder is chosen at run time; the ignore comments keep the build from tracing the project.
-  return path.resolve(/*turbopackIgnore: true*/ process.env.MAIL_CATCHER_DIR || ".data/mail");
+  return path.resolve(/*turbopackIgnore: true*/ process.env.LOCAL_INBOX_DIR || ".data/mail");
 }
 
 async function readOne(file: string): Promise<CaughtMessage | null> {
@@ -61,7 +61,7 @@ async function readOne(file: string): Promise<CaughtMessage | null> {
 
 async function fileNames(): Promise<string[]> {
   try {
-    const names = await fs.readdir(/*turbopackIgnore: true*/ catcherDir());
+    const names = await fs.readdir(/*turbopackIgnore: true*/ inboxDir());
     return names.filter((n) => n.endsWith(".json") && CAUGHT_ID.test(n.slice(0, -5)));
   } catch {
     return [];
@@ -73,7 +73,7 @@ export async function listCaught(limit = LIST_LIMIT): Promise<CaughtSummary[]> {
   // File names start with the receiving time in ms, so a string sort orders them (same length).
   const names = (await fileNames()).sort().reverse();
   const messages = (
-    await Promise.all(names.slice(0, limit).map((n) => readOne(path.join(/*turbopackIgnore: true*/ catcherDir(), n))))
+    await Promise.all(names.slice(0, limit).map((n) => readOne(path.join(/*turbopackIgnore: true*/ inboxDir(), n))))
   ).filter((m): m is CaughtMessage => m !== null);
   const deliveries = new Map<string, number>();
   for (const m of messages) if (m.messageId) deliveries.set(m.messageId, (deliveries.get(m.messageId) ?? 0) + 1);
@@ -85,7 +85,7 @@ export async function listCaught(limit = LIST_LIMIT): Promise<CaughtSummary[]> {
     subject: m.subject,
     from: m.from,
     to: m.to,
-    kind: m.headers["x-arcwarden-kind"] ?? null,
+    kind: m.headers["x-benchclear-kind"] ?? null,
     attachments: m.attachments.map((a) => ({ filename: a.filename, contentType: a.contentType, size: a.size })),
     deliveries: m.messageId ? (deliveries.get(m.messageId) ?? 1) : 1,
   }));
@@ -93,5 +93,5 @@ export async function listCaught(limit = LIST_LIMIT): Promise<CaughtSummary[]> {
 
 export async function getCaught(id: string): Promise<CaughtMessage | null> {
   if (!CAUGHT_ID.test(id)) return null;
-  return readOne(path.join(/*turbopackIgnore: true*/ catcherDir(), `${id}.json`));
+  return readOne(path.join(/*turbopackIgnore: true*/ inboxDir(), `${id}.json`));
 }
