@@ -37,8 +37,8 @@ try {
     SMTP_PORT: String(MAIL_PORT),
     NEXT_TELEMETRY_DISABLED: "1",
   };
-  run(bin("tsx"), ["db/migrate.ts"], { env });
-  run(bin("tsx"), ["db/seed.ts"], { env });
+  run(bin("tsx"), ["scripts/migrate.ts"], { env });
+  run(bin("tsx"), ["scripts/demo-data.ts"], { env });
   await requireFreePort(PORT, "the dev server", "PORT");
   await requireFreePort(MAIL_PORT, "the local inbox", "SMTP_PORT");
   startChild("local inbox", bin("tsx"), ["scripts/local-inbox.ts"], {

@@ -63,9 +63,9 @@ async function main() {
   };
 
   step("Applying database migrations");
-  run(bin("tsx"), ["db/migrate.ts"], { env: { ...appEnv, NODE_ENV: "development" } });
+  run(bin("tsx"), ["scripts/migrate.ts"], { env: { ...appEnv, NODE_ENV: "development" } });
   step("Seeding demo data (skipped where it is already there)");
-  run(bin("tsx"), ["db/seed.ts"], { env: { ...appEnv, NODE_ENV: "development" } });
+  run(bin("tsx"), ["scripts/demo-data.ts"], { env: { ...appEnv, NODE_ENV: "development" } });
 
   ensureBuild(appEnv);
 

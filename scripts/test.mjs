@@ -105,7 +105,7 @@ async function main() {
   fs.rmSync(testEnv.LOCAL_INBOX_DIR, { recursive: true, force: true });
   fs.rmSync(testEnv.STORAGE_DIR, { recursive: true, force: true });
 
-  if (!stage("Migrations", bin("tsx"), ["db/migrate.ts"], testEnv)) throw new Error("migrations failed");
+  if (!stage("Migrations", bin("tsx"), ["scripts/migrate.ts"], testEnv)) throw new Error("migrations failed");
   if (!quick) {
     stage("Lint (eslint, prettier)", "npm", ["run", "--silent", "lint"], testEnv);
     stage("Typecheck (tsc)", "npm", ["run", "--silent", "typecheck"], testEnv);

@@ -18,7 +18,7 @@ import { apparatus, apparatusRevisions } from "./apparatus";
 import { departments, users } from "./users";
 
 // Applications, their frozen revisions and attachments. The state changes only through
-// lib/review/state.ts, guarded by `WHERE state = expected AND version = n`.
+// lib/applications/state.ts, guarded by `WHERE state = expected AND version = n`.
 
 export const APPLICATION_STATES = [
   "draft",

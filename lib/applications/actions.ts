@@ -18,9 +18,9 @@ import { assessSetup, type TierRules } from "@/lib/hazard";
 import { currentTierRules } from "@/lib/hazard-rules";
 import { AppError, conflict, notFound, type FieldIssue } from "@/lib/http/errors";
 import { queueMail } from "@/lib/mail/outbox";
-import { canonicalJson, revisionHash } from "@/lib/review/canonical";
-import { afterSubmit } from "@/lib/review/actions";
-import { transition } from "@/lib/review/state";
+import { canonicalJson, revisionHash } from "@/lib/signing/canonical";
+import { afterSubmit } from "@/lib/applications/chain-start";
+import { transition } from "@/lib/applications/state";
 import { currentChainRules } from "@/lib/rules/queries";
 import { applicationDraftSchema, type ApplicationContent, type ApplicationDraft } from "@/lib/validation/application";
 import { EDITABLE_STATES, WITHDRAWABLE_STATES } from "./access";
@@ -29,7 +29,7 @@ import { toAttachmentRef } from "./queries";
 
 // Writes to applications by their applicant: create, autosave, duplicate, submit, withdraw. Each
 // change and its audit row (and any outbox row) share one transaction; state changes go through
-// transition() (lib/review/state.ts). Decisions after submission belong to lib/review.
+// transition() (./state.ts). Decisions after submission belong to lib/review.
 
 function needDepartment(user: CurrentUser): string {
   if (!user.departmentId) {

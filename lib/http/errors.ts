@@ -38,6 +38,9 @@ export const unauthenticated = () => new AppError("unauthenticated", "Sign in to
 export const forbidden = (message = "You do not have permission to do this.") => new AppError("forbidden", message);
 export const notFound = (what = "That record") => new AppError("not_found", `${what} was not found.`);
 export const conflict = (message: string) => new AppError("conflict", message);
+/** 422 naming one field, shown next to it by the form. */
+export const invalidField = (path: string, message: string) =>
+  new AppError("invalid", `${path}: ${message}`, { issues: [{ path, message }] });
 
 /** Renders a zod path like ["sources", 0, "capacitance_F"] as "sources[0].capacitance_F". */
 export function formatPath(path: readonly PropertyKey[]): string {

@@ -6,7 +6,7 @@ import { writeAudit } from "@/lib/audit";
 import type { CurrentUser } from "@/lib/auth/guards";
 import { notFound } from "@/lib/http/errors";
 import { permitScope } from "@/lib/permits/queries";
-import { canonicalJson, sha256Hex } from "@/lib/review/canonical";
+import { canonicalJson, sha256Hex } from "@/lib/signing/canonical";
 import { getStorage } from "@/lib/storage";
 import { loadPrintData, permitHead } from "./data";
 import { renderDocument } from "./render";

@@ -11,7 +11,7 @@ import { institutionToday } from "./queries";
 import { renewalDraft } from "./renewal";
 
 // Writes for permits: issuing one inside the approving transaction, and starting a renewal.
-// (Revoking is a signed decision: lib/review/actions.ts.)
+// (Revoking is a signed decision: ./revoke.ts.)
 
 /**
  * The next number of `year`, taken inside the caller's transaction. The upsert locks the year's

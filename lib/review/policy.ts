@@ -5,13 +5,12 @@
 // Refusals carry their HTTP meaning: 403 for "not you" (role, department, separation of duties), 409
 // for "not now" (the application is not waiting for this decision any more, e.g. a lost race).
 
-import type { ApplicationState, DecisionKind, Role } from "@/db/schema";
+import type { ApplicationState, DecisionKind } from "@/db/schema";
 import { rolesHave } from "@/lib/auth/permissions";
+import { separationOfDuties, type PolicyActor, type Refusal } from "@/lib/signing/duties";
 import { STEP_ROLE_LABELS, tierChain, type ChainRules, type StepRole } from "@/lib/rules/chain";
 
 export type ChainDecisionKind = Exclude<DecisionKind, "revoke">;
-
-export type PolicyActor = { id: string; roles: readonly Role[]; departmentId: string | null };
 
 export type PolicyApplication = {
   state: ApplicationState;
@@ -31,8 +30,6 @@ export type PolicyInput = {
   /** Signers of decisions already recorded on the current revision. */
   signerIds: readonly string[];
 };
-
-export type Refusal = { status: 403 | 409; message: string };
 
 export type DecisionOptions =
   | { ok: true; step: number; role: StepRole; final: boolean; allowed: ChainDecisionKind[] }
@@ -59,29 +56,6 @@ export function eligibleForStep(actor: PolicyActor, role: StepRole, departmentId
     );
   }
   return rolesHave(actor.roles, "permit.approve");
-}
-
-/** Separation of duties (security.md 4.3.3): the refusal, or null when the actor may sign. */
-export function separationOfDuties(input: {
-  actor: PolicyActor;
-  application: Pick<PolicyApplication, "applicantId" | "namedUserIds">;
-  submittedById: string | null;
-  signerIds: readonly string[];
-}): Refusal | null {
-  const { actor, application } = input;
-  if (actor.id === application.applicantId || actor.id === input.submittedById) {
-    return { status: 403, message: "You submitted this application: someone else must decide on it." };
-  }
-  if (application.namedUserIds.includes(actor.id)) {
-    return { status: 403, message: "You are named on this application, so you may not decide on it." };
-  }
-  if (input.signerIds.includes(actor.id)) {
-    return {
-      status: 403,
-      message: "You already signed a step of this review chain; another person signs the next one.",
-    };
-  }
-  return null;
 }
 
 export function decisionOptions(input: PolicyInput): DecisionOptions {
@@ -162,20 +136,3 @@ export function checkDecision(input: PolicyInput, kind: ChainDecisionKind): Deci
     },
   };
 }
-
-// What each signature means, stored with the decision and printed wherever it is shown.
-export const DECISION_MEANINGS: Record<DecisionKind, string> = {
-  recommend: "Recommended: the reviewer has checked this revision and recommends it for approval.",
-  return: "Returned: this revision needs changes before it can be decided.",
-  approve: "Approved: the set-up may be operated under this permit, within its validity and conditions.",
-  reject: "Rejected: the set-up may not be operated under this application.",
-  revoke: "Revoked: the permit no longer allows the set-up to be operated.",
-};
-
-export const DECISION_LABELS: Record<DecisionKind, string> = {
-  recommend: "Recommended",
-  return: "Returned",
-  approve: "Approved",
-  reject: "Rejected",
-  revoke: "Revoked",
-};

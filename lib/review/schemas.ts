@@ -1,14 +1,13 @@
 import { z } from "zod";
+import { expectedVersion, signingPassword as password } from "@/lib/signing/schemas";
 
-// Request bodies of the review and permit endpoints, shared by the decision panel and the server.
+// Request bodies of the review endpoints, shared by the decision panel and the server.
 // The signer, their role, the step, the state and the content hash are never taken from the client:
 // the server derives them. `expectedVersion` is the optimistic-concurrency token the page was rendered
 // with; a stale one answers 409.
 
-const expectedVersion = z.number({ error: "Reload the page: the version is missing." }).int().min(1);
 const comment = z.string().trim().max(4000, "Use at most 4000 characters.");
 const requiredComment = (what: string) => comment.min(1, `Write ${what}.`);
-const password = z.string({ error: "Enter your password to sign." }).min(1, "Enter your password to sign.").max(1024);
 const isoDay = z.iso.date({ error: "Enter a date (YYYY-MM-DD)." });
 
 /** A return comment may point at a form step ("step:2") or a field path ("event.firstDay", "apparatus.setup.sources[0]"). */
@@ -53,14 +52,6 @@ export const decisionBodySchema = z.discriminatedUnion("kind", [
 ]);
 
 export type DecisionBody = z.infer<typeof decisionBodySchema>;
-
-export const revokeBodySchema = z.object({
-  expectedVersion,
-  password,
-  reason: z.string().trim().min(1, "Give the reason for revoking.").max(2000, "Use at most 2000 characters."),
-});
-
-export type RevokeBody = z.infer<typeof revokeBodySchema>;
 
 const blankToUndefined = (v: unknown) => (v === "" || v === null ? undefined : v);
 

@@ -1,6 +1,7 @@
 import "server-only";
 import { sql } from "drizzle-orm";
 import { db } from "@/db";
+import { isUniqueViolation } from "@/db/errors";
 import { ruleSets } from "@/db/schema";
 import { writeAudit } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
@@ -48,9 +49,4 @@ export async function adoptRuleSet(actor: CurrentUser, input: AdoptRulesInput) {
       throw conflict("Another admin adopted a version at the same moment. Reload and try again.");
     throw error;
   }
-}
-
-function isUniqueViolation(error: unknown): boolean {
-  const e = error as { code?: string; cause?: { code?: string } };
-  return e?.code === "23505" || e?.cause?.code === "23505";
 }

@@ -7,7 +7,7 @@ import {
   S3Client,
 } from "@aws-sdk/client-s3";
 import type { Env } from "@/lib/env";
-import { assertSafeKey, type Storage } from "./index";
+import { assertSafeKey, type Storage } from "./types";
 
 // S3-compatible object storage, for deployments with several app servers (STORAGE_DRIVER=s3).
 

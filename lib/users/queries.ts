@@ -1,7 +1,8 @@
 import "server-only";
-import { asc, desc, eq, sql } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, isNull, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { departments, invitations, users } from "@/db/schema";
+import type { DbOrTx } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
 
 // Reads for the admin screens. Columns are listed explicitly: a password hash is never selected.
@@ -65,4 +66,14 @@ export async function adminOverview(actor: CurrentUser) {
       sql`${invitations.usedAt} IS NULL AND ${invitations.revokedAt} IS NULL AND ${invitations.expiresAt} > now()`,
     );
   return { activeUsers: row?.activeUsers ?? 0, disabledUsers: row?.disabledUsers ?? 0, openInvitations: inv?.n ?? 0 };
+}
+
+/** E-mail addresses of those of the given users who are not disabled, for mail queued in `tx`. */
+export async function activeEmails(tx: DbOrTx, ids: readonly string[]): Promise<string[]> {
+  if (ids.length === 0) return [];
+  const rows = await tx
+    .select({ email: users.email })
+    .from(users)
+    .where(and(inArray(users.id, [...ids]), isNull(users.disabledAt)));
+  return rows.map((r) => r.email);
 }

@@ -4,7 +4,7 @@ import { getDb } from "@/db";
 import { applicationRevisions, applications, auditEvents, mailOutbox } from "@/db/schema";
 import { ATTESTATION_TEXT } from "@/lib/applications/draft";
 import { assessSetup, requiredControls } from "@/lib/hazard";
-import { revisionHash } from "@/lib/review/canonical";
+import { revisionHash } from "@/lib/signing/canonical";
 import { applicationContentSchema } from "@/lib/validation/application";
 import { createUser, requireDatabase } from "../support/db";
 import { http } from "../support/http";

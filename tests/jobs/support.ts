@@ -10,7 +10,7 @@ import { eq, inArray, sql } from "drizzle-orm";
 import { getDb } from "@/db";
 import { applicationRevisions, applications, decisions, institutionSettings, mailOutbox, permits } from "@/db/schema";
 import { assessSetup } from "@/lib/hazard";
-import { revisionHash } from "@/lib/review/canonical";
+import { revisionHash } from "@/lib/signing/canonical";
 import { applicationContentSchema, type ApplicationContent } from "@/lib/validation/application";
 import { createDepartment, createUser, uniq } from "../support/db";
 

@@ -21,7 +21,7 @@ import {
   type User,
 } from "@/db/schema";
 import { assessSetup, type Tier } from "@/lib/hazard";
-import { revisionHash } from "@/lib/review/canonical";
+import { revisionHash } from "@/lib/signing/canonical";
 import { createDepartment, createUser } from "../support/db";
 import { sampleContent, SAMPLE_SETUPS } from "./samples";
 

@@ -2,7 +2,7 @@ import { and, eq, sql } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { auditEvents } from "@/db/schema";
-import { decide } from "@/lib/review/actions";
+import { decide } from "@/lib/review/decide";
 import { requireDatabase, TEST_PASSWORD } from "../support/db";
 import { asActor, createSubmittedApplication, createTeam } from "./support";
 

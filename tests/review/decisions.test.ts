@@ -5,9 +5,10 @@ import { applicationRevisions, applications, auditEvents, decisions, mailOutbox,
 import { assessSetup, type Tier } from "@/lib/hazard";
 import { AppError } from "@/lib/http/errors";
 import { inclusiveDays } from "@/lib/permits/dates";
-import { decide, revokePermit } from "@/lib/review/actions";
-import { revisionHash } from "@/lib/review/canonical";
-import { DECISION_MEANINGS } from "@/lib/review/policy";
+import { revokePermit } from "@/lib/permits/revoke";
+import { decide } from "@/lib/review/decide";
+import { revisionHash } from "@/lib/signing/canonical";
+import { DECISION_MEANINGS } from "@/lib/signing/meanings";
 import { returnCommentsFor } from "@/lib/review/queries";
 import type { DecisionBody } from "@/lib/review/schemas";
 import { DEFAULT_CHAIN_RULES } from "@/lib/rules/chain";

@@ -3,7 +3,7 @@ import { describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { applications } from "@/db/schema";
 import { AppError } from "@/lib/http/errors";
-import { decide } from "@/lib/review/actions";
+import { decide } from "@/lib/review/decide";
 import { listQueue, QUEUE_PAGE_SIZE, queueCountsByTier } from "@/lib/review/queries";
 import { createUser, requireDatabase, TEST_PASSWORD } from "../support/db";
 import { asActor, createSubmittedApplication, createTeam } from "./support";

@@ -4,7 +4,7 @@ import { getDb } from "@/db";
 import { auditEvents, decisions, permitCounters, permits } from "@/db/schema";
 import { AppError } from "@/lib/http/errors";
 import { nextPermitNumber } from "@/lib/permits/actions";
-import { decide } from "@/lib/review/actions";
+import { decide } from "@/lib/review/decide";
 import { DEFAULT_CHAIN_RULES } from "@/lib/rules/chain";
 import { requireDatabase, TEST_PASSWORD } from "../support/db";
 import { asActor, createOfficer, createSubmittedApplication, createTeam } from "./support";

@@ -5,7 +5,7 @@ import { auditEvents } from "@/db/schema";
 import { DEFAULT_RULES } from "@/lib/hazard";
 import { AppError } from "@/lib/http/errors";
 import { inclusiveDays } from "@/lib/permits/dates";
-import { decide } from "@/lib/review/actions";
+import { decide } from "@/lib/review/decide";
 import { chainRulesSchema, DEFAULT_CHAIN_RULES, DEFAULT_REMINDER_RULES, type ChainRules } from "@/lib/rules/chain";
 import { adoptRuleSet } from "@/lib/rules/actions";
 import { chainRulesFor, currentChainRules, currentReminderRules, currentTierRuleSet } from "@/lib/rules/queries";

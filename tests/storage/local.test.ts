@@ -4,7 +4,7 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { LocalStorage, newKey, type Storage } from "@/lib/storage";
 
-describe("LocalStorage (lib/storage/index.ts)", () => {
+describe("LocalStorage (lib/storage/local.ts)", () => {
   let root: string;
   beforeAll(async () => {
     root = await fs.mkdtemp(path.join(os.tmpdir(), "benchclear-storage-"));

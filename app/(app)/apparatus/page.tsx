@@ -12,7 +12,7 @@ import { listApparatus, type ApparatusListRow } from "@/lib/apparatus/queries";
 import { can, requirePageUser } from "@/lib/auth/guards";
 import { formatQuantity, TIER_LABELS } from "@/lib/hazard";
 import { apparatusListQuerySchema } from "@/lib/validation/apparatus";
-import { Pager, SortLink } from "./_components/list-controls";
+import { Pager, SortLink } from "@/app/_components/list-controls";
 
 export const metadata: Metadata = { title: "Apparatus" };
 

@@ -13,7 +13,7 @@ import { isEditable } from "@/lib/applications/access";
 import { listMyApplications, type MyApplicationRow } from "@/lib/applications/queries";
 import { can, requirePageUser } from "@/lib/auth/guards";
 import { applicationListQuerySchema } from "@/lib/validation/application";
-import { Pager, SortLink } from "../apparatus/_components/list-controls";
+import { Pager, SortLink } from "@/app/_components/list-controls";
 import { DuplicateButton } from "./new/_form/duplicate-button";
 
 export const metadata: Metadata = { title: "Applications" };

@@ -13,7 +13,7 @@ import { TierBadge } from "@/app/_components/tier-badge";
 import { can, requirePageUser } from "@/lib/auth/guards";
 import { daysFromTo } from "@/lib/permits/dates";
 import { listPermits, type PermitListRow } from "@/lib/permits/queries";
-import { Pagination } from "../review/_components/pagination";
+import { Pagination } from "@/app/_components/pagination";
 
 export const metadata: Metadata = { title: "Permits" };
 

@@ -15,8 +15,8 @@ import { listQueue, queueCountsByTier, type QueueRow } from "@/lib/review/querie
 import { queueQuerySchema, type QueueQuery } from "@/lib/review/schemas";
 import { STEP_ROLE_LABELS } from "@/lib/rules/chain";
 import { listDepartments } from "@/lib/users/queries";
-import { Pagination } from "./_components/pagination";
-import { daysWaiting, waitingText } from "./_components/utc";
+import { Pagination } from "@/app/_components/pagination";
+import { daysWaiting, waitingText } from "@/app/_components/utc";
 
 export const metadata: Metadata = { title: "Review queue" };
 

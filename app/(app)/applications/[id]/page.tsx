@@ -16,9 +16,9 @@ import { addDays } from "@/lib/permits/dates";
 import { institutionToday } from "@/lib/permits/queries";
 import { getApplicationRecord } from "@/lib/review/queries";
 import { describeChain, STEP_ROLE_LABELS, tierChain } from "@/lib/rules/chain";
-import type { ApplicationContent } from "@/lib/validation/application";
-import { SignatureList } from "../../review/_components/signature-list";
-import { formatUtc } from "../../review/_components/utc";
+import { FORM_STEPS, STEP_TITLES, type ApplicationContent } from "@/lib/validation/application";
+import { SignatureList } from "@/app/_components/signature-list";
+import { formatUtc } from "@/app/_components/utc";
 import { ContentSummary } from "./_components/content-summary";
 import { DecisionPanel } from "./_components/decision-panel";
 import { RevisionDiff } from "./_components/revision-diff";
@@ -26,13 +26,9 @@ import { Timeline } from "./_components/timeline";
 
 export const metadata: Metadata = { title: "Application" };
 
+// Comments pin to a form step by the title the applicant sees in the form, or to one of its fields.
 const STEP_PINS = [
-  { value: "step:1", label: "Step 1 · Event" },
-  { value: "step:2", label: "Step 2 · Apparatus and energy sources" },
-  { value: "step:3", label: "Step 3 · Hazard result" },
-  { value: "step:4", label: "Step 4 · Controls" },
-  { value: "step:5", label: "Step 5 · Attachments" },
-  { value: "step:6", label: "Step 6 · Review and attest" },
+  ...FORM_STEPS.map((step) => ({ value: `step:${step}`, label: `Step ${step} · ${STEP_TITLES[step]}` })),
   { value: "event.title", label: "Event title" },
   { value: "event.room", label: "Room or place" },
   { value: "event.firstDay", label: "First day" },

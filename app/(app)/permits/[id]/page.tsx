@@ -17,8 +17,8 @@ import { daysFromTo, inclusiveDays } from "@/lib/permits/dates";
 import { getPermit } from "@/lib/permits/queries";
 import { figureRows, formatPerson } from "@/lib/review/present";
 import type { ApplicationContent } from "@/lib/validation/application";
-import { SignatureList } from "../../review/_components/signature-list";
-import { formatUtc } from "../../review/_components/utc";
+import { SignatureList } from "@/app/_components/signature-list";
+import { formatUtc } from "@/app/_components/utc";
 import { RenewButton, RevokeForm } from "./_components/permit-actions";
 
 export const metadata: Metadata = { title: "Permit" };

@@ -1,5 +1,5 @@
 import { isoDate } from "@/app/_components/format";
-import { formatUtc } from "../../../review/_components/utc";
+import { formatUtc } from "@/app/_components/utc";
 
 export type TimelineEvent = {
   id: number;

@@ -4,8 +4,8 @@ import { z } from "zod";
 import { clientIp } from "@/lib/auth/throttle";
 import { fromZodError } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
-import { revokePermit } from "@/lib/review/actions";
-import { revokeBodySchema } from "@/lib/review/schemas";
+import { revokePermit } from "@/lib/permits/revoke";
+import { revokeBodySchema } from "@/lib/permits/schemas";
 
 const idSchema = z.uuid({ error: "must be a permit id" });
 

@@ -5,7 +5,7 @@ import { z } from "zod";
 import { clientIp } from "@/lib/auth/throttle";
 import { fromZodError } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
-import { decide } from "@/lib/review/actions";
+import { decide } from "@/lib/review/decide";
 import { decisionBodySchema } from "@/lib/review/schemas";
 
 const idSchema = z.uuid({ error: "must be an application id" });

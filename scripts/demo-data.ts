@@ -1,12 +1,12 @@
 // Demo data for the fictional Aldermere Institute of Technology: two departments, one user per role
 // (the demo password is printed in the README), the institution's settings, and the demo story
-// (db/seed-story.ts: apparatus of every tier, applications in every state, permits). Idempotent:
+// (scripts/demo-story.ts: apparatus of every tier, applications in every state, permits). Idempotent:
 // re-running adds only what is missing. Refuses NODE_ENV=production unless SEED_ALLOW_PRODUCTION=1.
 import "@/lib/jobs/standalone";
 import { hashPassword } from "@/lib/auth/password";
 import { loadLocalEnv } from "@/scripts/lib/load-env";
-import { closeDb, getDb } from "./index";
-import { departments, institutionSettings, users, type Role } from "./schema";
+import { closeDb, getDb } from "@/db";
+import { departments, institutionSettings, users, type Role } from "@/db/schema";
 
 export const DEMO_PASSWORD = "benchclear-demo-2026";
 export const INSTITUTION_NAME = "Aldermere Institute of Technology";
@@ -65,7 +65,7 @@ export async function seed(): Promise<void> {
     .onConflictDoNothing();
 
   // The story goes through server modules; they load only after lib/jobs/standalone is registered.
-  const { seedStory } = await import("./seed-story");
+  const { seedStory } = await import("./demo-story");
   const told = await seedStory(DEMO_PASSWORD);
   console.log(
     `  demo data: ${DEMO_DEPARTMENTS.length} departments, ${missing.length} user(s) added, story ${told ? "added" : "already there"}`,

@@ -1,5 +1,5 @@
 import { isoDate } from "@/app/_components/format";
-import { DECISION_LABELS } from "@/lib/review/policy";
+import { DECISION_LABELS } from "@/lib/signing/meanings";
 import type { DecisionKind } from "@/db/schema";
 import { formatUtc } from "./utc";
 

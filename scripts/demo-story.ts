@@ -1,7 +1,7 @@
 // The demo story of the fictional Aldermere Institute of Technology: five apparatus from tier 0 to 4
 // and applications in every state, with permits active, ending this week, expired and revoked. It goes
 // through the real domain functions (registry, drafts, submission, signed decisions, revocation), so
-// every row has its revisions, audit events and queued mail. Run by db/seed.ts once; invented data.
+// every row has its revisions, audit events and queued mail. Run by scripts/demo-data.ts once; invented data.
 import { and, eq, sql } from "drizzle-orm";
 import { getDb } from "@/db";
 import { auditEvents, permits, users } from "@/db/schema";
@@ -11,7 +11,8 @@ import { setupToText } from "@/lib/apparatus/setup-text";
 import { createDraft, saveDraft, submitApplication, withdrawApplication } from "@/lib/applications/actions";
 import type { CurrentUser } from "@/lib/auth/guards";
 import { assessSetup, requiredControls, type SetupInput } from "@/lib/hazard";
-import { decide, revokePermit } from "@/lib/review/actions";
+import { revokePermit } from "@/lib/permits/revoke";
+import { decide } from "@/lib/review/decide";
 import { currentChainRules } from "@/lib/rules/queries";
 import { tierChain } from "@/lib/rules/chain";
 import { applicationDraftSchema, type ApplicationDraft } from "@/lib/validation/application";

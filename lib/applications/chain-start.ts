@@ -1,0 +1,115 @@
+import "server-only";
+import { and, eq, isNull } from "drizzle-orm";
+import { applicationRevisions, applications, type Application, type Permit } from "@/db/schema";
+import { writeAudit, type Tx } from "@/lib/audit";
+import { conflict } from "@/lib/http/errors";
+import { queueMail } from "@/lib/mail/outbox";
+import { addDays } from "@/lib/permits/dates";
+import { issuePermit } from "@/lib/permits/actions";
+import { institutionToday } from "@/lib/permits/queries";
+import { tierChain } from "@/lib/rules/chain";
+import { chainRulesFor, currentChainRules } from "@/lib/rules/queries";
+import { activeEmails } from "@/lib/users/queries";
+import { transition } from "./state";
+
+// Where the review chain starts: on submission the application is bound to the chain rules in
+// force, and a tier whose chain has no signers is self-certified at once. The signed decisions that
+// follow are lib/review/decide.ts.
+
+/**
+ * Call inside the submitting transaction, right after the draft/returned → submitted transition.
+ * Binds the application to the chain rules in force when it has none yet, and when its tier's chain
+ * has no signers (tier 0 by default) records it as self-certified: approved at once, with a permit
+ * for the tier's longest validity. Returns the application as it now stands and the permit, if any.
+ */
+export async function afterSubmit(
+  tx: Tx,
+  application: Application,
+  actor: { id: string; name: string },
+  now: Date = new Date(),
+): Promise<{ application: Application; permit: Permit | null }> {
+  let current = application;
+  if (current.chainRulesVersion === null) {
+    const { version } = await currentChainRules(tx);
+    const [row] = await tx
+      .update(applications)
+      .set({ chainRulesVersion: version })
+      .where(and(eq(applications.id, current.id), isNull(applications.chainRulesVersion)))
+      .returning();
+    current = row ?? current;
+  }
+  if (current.state !== "submitted" || current.tier === null || !current.currentRevisionId) {
+    return { application: current, permit: null };
+  }
+  const rules = await chainRulesFor(current.chainRulesVersion, tx);
+  const chain = tierChain(rules, current.tier);
+  if (chain.steps.length > 0) return { application: current, permit: null };
+  return selfCertify(tx, current, chain.validityDays, actor, now);
+}
+
+async function selfCertify(
+  tx: Tx,
+  application: Application,
+  validityDays: number,
+  actor: { id: string; name: string },
+  now: Date,
+): Promise<{ application: Application; permit: Permit }> {
+  const [revision] = await tx
+    .select({
+      id: applicationRevisions.id,
+      tier: applicationRevisions.tier,
+      contentHash: applicationRevisions.contentHash,
+    })
+    .from(applicationRevisions)
+    .where(eq(applicationRevisions.id, application.currentRevisionId!));
+  if (!revision) throw conflict("This application's submitted revision is missing.");
+  const updated = await transition(tx, {
+    applicationId: application.id,
+    from: ["submitted"],
+    to: "approved",
+    expectedVersion: application.version,
+    set: { waitingSince: null, decidedAt: now },
+  });
+  const today = await institutionToday(now, tx);
+  const validFrom = today;
+  const validTo = addDays(today, validityDays - 1);
+  const permit = await issuePermit(tx, {
+    applicationId: application.id,
+    revisionId: revision.id,
+    holderId: application.applicantId,
+    tier: revision.tier,
+    validFrom,
+    validTo,
+    conditions: [],
+    today,
+    actor,
+    now,
+  });
+  await writeAudit(tx, {
+    actor,
+    action: "application.self_certified",
+    entityType: "application",
+    entityId: application.id,
+    data: {
+      revisionId: revision.id,
+      contentHash: revision.contentHash,
+      tier: revision.tier,
+      chainRulesVersion: application.chainRulesVersion,
+      permitId: permit.id,
+      permitNumber: permit.number,
+    },
+  });
+  const applicant = await activeEmails(tx, [application.applicantId]);
+  await queueMail(tx, applicant, {
+    kind: "application_approved",
+    data: {
+      applicationId: application.id,
+      permitId: permit.id,
+      permitNumber: permit.number,
+      title: application.title,
+      validFrom,
+      validTo,
+    },
+  });
+  return { application: updated, permit };
+}

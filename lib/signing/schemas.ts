@@ -1,0 +1,11 @@
+import { z } from "zod";
+
+// The parts every signed request body shares (review decisions, permit revocation). The signer, their
+// role, the state and the content hash are never taken from the client. `expectedVersion` is the
+// optimistic-concurrency token the page was rendered with; a stale one answers 409.
+
+export const expectedVersion = z.number({ error: "Reload the page: the version is missing." }).int().min(1);
+export const signingPassword = z
+  .string({ error: "Enter your password to sign." })
+  .min(1, "Enter your password to sign.")
+  .max(1024);

@@ -1,0 +1,14 @@
+// Applies the committed migrations (db/migrate.ts) to DATABASE_URL from the environment or .env.local.
+// Run by `npm start`, `npm test` and `npm run db:migrate`.
+import { closeDb } from "@/db";
+import { runMigrations } from "@/db/migrate";
+import { loadLocalEnv } from "@/scripts/lib/load-env";
+
+loadLocalEnv();
+runMigrations()
+  .then(() => console.log("  migrations applied"))
+  .catch((error: unknown) => {
+    console.error("migration failed:", error instanceof Error ? error.message : error);
+    process.exitCode = 1;
+  })
+  .finally(() => closeDb());
