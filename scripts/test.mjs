@@ -137,6 +137,19 @@ async function main() {
   );
 
   await stopAllChildren();
+
+  // A short run of `npm run bench` (1k permits, 1 s per route) so the benchmark never rots: it fails
+  // when a route errors or the harness breaks, never on speed. Only in full runs (no vitest filter).
+  if (
+    (vitestArgs.length === 0 && process.env.BENCHCLEAR_BENCH_SMOKE !== "0") ||
+    process.env.BENCHCLEAR_BENCH_SMOKE === "1"
+  ) {
+    stage("Benchmark smoke (npm run bench -- --smoke)", bin("tsx"), ["scripts/bench/index.ts", "--smoke"], {
+      ...testEnv,
+      NODE_ENV: "production",
+      NEXT_DIST_DIR: distDir,
+    });
+  }
   releasePg();
 
   let passed = 0;

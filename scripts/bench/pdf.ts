@@ -9,6 +9,8 @@ import { countPages, renderDocument } from "@/lib/pdf/render";
 import type { PrintData } from "@/lib/pdf/types";
 
 const RENDERS = Math.max(1, Number(process.argv[2] ?? 50) || 50);
+// `--json`: one line of figures for scripts/bench/index.ts instead of the text below.
+const JSON_OUT = process.argv.includes("--json");
 
 // A tier 0 bench: a 5 cm sphere terminal at 100 kV (E = ½·C·V² ≈ 27.8 mJ), signed by no one: one page.
 const setup: SetupInput = { sources: [{ id: "Sphere", kind: "sphere-terminal", radius_m: 0.05, voltage_V: 100e3 }] };
@@ -82,6 +84,19 @@ async function main() {
   const after = process.memoryUsage();
   times.sort((a, b) => a - b);
 
+  if (JSON_OUT) {
+    const r1 = (x: number) => Math.round(x * 10) / 10;
+    console.log(
+      JSON.stringify({
+        renders: RENDERS,
+        medianMs: r1(percentile(times, 50)),
+        p95Ms: r1(percentile(times, 95)),
+        rssGrowthMb: r1((after.rss - before.rss) / 1024 / 1024),
+        heapGrowthMb: r1((after.heapUsed - before.heapUsed) / 1024 / 1024),
+      }),
+    );
+    return;
+  }
   console.log(
     `one-page A4 permit, ${first.length} bytes, ${RENDERS} renders after a ${warm.toFixed(0)} ms first render`,
   );

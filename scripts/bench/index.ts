@@ -1,0 +1,716 @@
+// `npm run bench`: the product's measured speed beside a bare baseline (issue 15).
+//
+//   npm run bench                          1k, 10k and 100k permits, 10 s per route and side
+//   npm run bench -- --sizes=1000 --duration=1 --smoke   the quick run `npm test` does
+//   options: --sizes=a,b,c  --duration=seconds  --connections=16  --no-pdf  --no-js  --out=docs/performance.md
+//
+// For each size: a fresh database (scripts/bench/data.ts), the production build on its own port and
+// the baseline (scripts/bench/baseline.mjs) running the SQL the app ran for each route, captured from
+// PostgreSQL's statement log; then autocannon against the app and the baseline alternately, the same
+// duration and connections. Then EXPLAIN (ANALYZE, BUFFERS) of every SELECT the routes ran (a
+// sequential scan of a large table fails the run at 100k permits and more), first-load JavaScript per
+// route, resident memory, and the PDF render figures. Writes docs/performance.md (full runs only) and
+// JSON under .data/bench/.
+import "@/lib/jobs/standalone";
+import fs from "node:fs";
+import http from "node:http";
+import path from "node:path";
+import zlib from "node:zlib";
+import { spawnSync, type ChildProcess } from "node:child_process";
+import autocannon from "autocannon";
+import {
+  bin,
+  dataDir,
+  ensureBuild,
+  localEnv,
+  pgPaths,
+  pgUp,
+  psql,
+  registerUser,
+  releasePg,
+  requireFreePort,
+  root,
+  startChild,
+  stopChild,
+  waitForHttp,
+  // @ts-expect-error plain JavaScript helpers shared with the start and test scripts
+} from "../lib/services.mjs";
+import { statementsFromLog, type Statement } from "./capture";
+import { databaseUrlFor, ensureBase, makeDataset, type Dataset } from "./data";
+import { renderMarkdown } from "./report";
+
+// ---------------------------------------------------------------------------------------------
+// Options
+
+const args = new Map(
+  process.argv.slice(2).map((a) => {
+    const [k, v] = a.replace(/^--/, "").split("=");
+    return [k, v ?? "true"] as const;
+  }),
+);
+const SMOKE = args.has("smoke");
+const SIZES = (args.get("sizes") ?? (SMOKE ? "1000" : "1000,10000,100000")).split(",").map(Number);
+const DURATION_S = Number(args.get("duration") ?? (SMOKE ? 1 : 10));
+const CONNECTIONS = Number(args.get("connections") ?? 16);
+const WITH_PDF = !args.has("no-pdf");
+const WITH_JS = !args.has("no-js");
+const OUT = args.get("out") ?? (SMOKE ? null : "docs/performance.md");
+// The bench's own ports: TEST_PORT + 700 for the app, + 10 for the baseline (4080/4090 for 3380).
+const APP_PORT = Number(process.env.BENCH_APP_PORT ?? Number(process.env.TEST_PORT ?? 3300) + 700);
+const BASE_PORT = Number(process.env.BENCH_BASELINE_PORT ?? APP_PORT + 10);
+const DB_PREFIX = SMOKE ? `${process.env.TEST_DB_NAME ?? "benchclear_test"}_bench` : "benchclear_bench";
+const BENCH_DIR = path.join(dataDir, "bench");
+// The client address the app sees while its SQL is captured; the baseline swaps it for its own
+// request's address (TEST-NET-3, documentation range).
+const CAPTURE_ADDRESS = "203.0.113.77";
+// Seq scans of tables estimated above this many rows fail the plan check at 100k permits.
+const LARGE_TABLE_ROWS = 10_000;
+
+const DEMO_PASSWORD = "benchclear-demo-2026";
+
+type Env = Record<string, string>;
+
+// ---------------------------------------------------------------------------------------------
+// Measured routes
+
+type Target = {
+  name: string;
+  label: string;
+  user: "officer" | "instructor" | null;
+  method: "GET" | "POST" | "PATCH";
+  path: string;
+  body?: string;
+  /** A list or queue: its plans are checked and its p95 growth reported against the budget. */
+  list?: boolean;
+  /** Each request from a different client address (the public page's rate limit is per client). */
+  perClient?: boolean;
+  autosave?: boolean;
+  pdf?: boolean;
+};
+
+type Fixtures = {
+  permitId: string;
+  code: string;
+  drafts: string[];
+  draftBody: { step: number; draft: unknown };
+  setup: unknown;
+};
+
+function targets(f: Fixtures): Target[] {
+  return [
+    {
+      name: "status",
+      label: "public status page `/verify/[code]`",
+      user: null,
+      method: "GET",
+      path: `/verify/${f.code}`,
+      perClient: true,
+    },
+    { name: "permits", label: "`GET /api/permits`", user: "officer", method: "GET", path: "/api/permits", list: true },
+    {
+      name: "permits-tier",
+      label: "`GET /api/permits?tier=3`",
+      user: "officer",
+      method: "GET",
+      path: "/api/permits?tier=3",
+      list: true,
+    },
+    {
+      name: "permits-page400",
+      label: "`GET /api/permits?page=400`",
+      user: "officer",
+      method: "GET",
+      path: "/api/permits?page=400",
+      list: true,
+    },
+    {
+      name: "queue",
+      label: "review queue `GET /api/review`",
+      user: "officer",
+      method: "GET",
+      path: "/api/review",
+      list: true,
+    },
+    { name: "dashboard", label: "dashboard `/`", user: "officer", method: "GET", path: "/", list: true },
+    {
+      name: "permit-page",
+      label: "a permit page `/permits/[id]`",
+      user: "officer",
+      method: "GET",
+      path: `/permits/${f.permitId}`,
+    },
+    {
+      name: "pdf",
+      label: "stored PDF `/permits/[id]/pdf`",
+      user: "officer",
+      method: "GET",
+      path: `/permits/${f.permitId}/pdf`,
+      pdf: true,
+    },
+    {
+      name: "assess",
+      label: "`POST /api/assess`",
+      user: "instructor",
+      method: "POST",
+      path: "/api/assess",
+      body: JSON.stringify(f.setup),
+    },
+    {
+      name: "autosave",
+      label: "draft autosave `PATCH /api/applications/[id]/draft`",
+      user: "instructor",
+      method: "PATCH",
+      path: "/api/applications/{draft}/draft",
+      autosave: true,
+    },
+  ];
+}
+
+// ---------------------------------------------------------------------------------------------
+// Small helpers
+
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+const round = (x: number, digits = 1) => Math.round(x * 10 ** digits) / 10 ** digits;
+
+function percentile(sorted: number[], p: number): number {
+  if (!sorted.length) return NaN;
+  const rank = Math.ceil((p / 100) * sorted.length) - 1;
+  return sorted[Math.min(sorted.length - 1, Math.max(0, rank))];
+}
+
+/** Resident memory (MB) of a process and its descendants, from /proc. */
+function treeRssMb(pid: number): number {
+  const children = new Map<number, number[]>();
+  for (const entry of fs.readdirSync("/proc")) {
+    if (!/^\d+$/.test(entry)) continue;
+    try {
+      const stat = fs.readFileSync(`/proc/${entry}/stat`, "utf8");
+      const ppid = Number(stat.slice(stat.lastIndexOf(")") + 2).split(" ")[1]);
+      children.set(ppid, [...(children.get(ppid) ?? []), Number(entry)]);
+    } catch {
+      // gone
+    }
+  }
+  let total = 0;
+  const stack = [pid];
+  while (stack.length) {
+    const p = stack.pop()!;
+    try {
+      const m = /VmRSS:\s+(\d+) kB/.exec(fs.readFileSync(`/proc/${p}/status`, "utf8"));
+      if (m) total += Number(m[1]);
+    } catch {
+      // gone
+    }
+    stack.push(...(children.get(p) ?? []));
+  }
+  return round(total / 1024, 0);
+}
+
+// ---------------------------------------------------------------------------------------------
+// The app under test
+
+type App = { child: ChildProcess; url: string; cookies: Record<string, string> };
+
+function appEnv(env: Env, database: string): Env {
+  const url = `http://127.0.0.1:${APP_PORT}`;
+  return {
+    ...(process.env as Env),
+    ...env,
+    NODE_ENV: "production",
+    DATABASE_URL: databaseUrlFor(env, database),
+    APP_URL: url,
+    AUTH_URL: url,
+    AUTH_TRUST_HOST: "true",
+    WORKER_IN_APP: "false",
+    STORAGE_DIR: path.join(BENCH_DIR, "uploads"),
+    LOCAL_INBOX_DIR: path.join(BENCH_DIR, "mail"),
+    NEXT_TELEMETRY_DISABLED: "1",
+    NEXT_DIST_DIR: process.env.NEXT_DIST_DIR ?? ".next",
+  };
+}
+
+async function startApp(env: Env, database: string): Promise<App> {
+  await requireFreePort(APP_PORT, "the benchmark's app server", "BENCH_APP_PORT");
+  const logFile = path.join(BENCH_DIR, `app-${APP_PORT}.log`);
+  const child = startChild("bench app", bin("next"), ["start", "-p", String(APP_PORT), "-H", "127.0.0.1"], {
+    env: appEnv(env, database),
+    stdio: ["ignore", fs.openSync(logFile, "w"), fs.openSync(logFile, "a")],
+  });
+  const url = `http://127.0.0.1:${APP_PORT}`;
+  await waitForHttp(`${url}/sign-in`, { child, timeoutMs: 90_000 });
+  const cookies: Record<string, string> = {};
+  for (const who of ["officer", "instructor"]) {
+    const res = await fetch(`${url}/api/session`, {
+      method: "POST",
+      headers: { "content-type": "application/json", origin: url, "x-forwarded-for": "198.51.100.9" },
+      body: JSON.stringify({ email: `${who}@benchclear.test`, password: DEMO_PASSWORD }),
+      redirect: "manual",
+    });
+    if (!res.ok) throw new Error(`signing in as ${who} failed: ${res.status} ${await res.text()}`);
+    cookies[who] = res.headers
+      .getSetCookie()
+      .map((c) => c.split(";")[0])
+      .join("; ");
+  }
+  return { child, url, cookies };
+}
+
+function fixtures(env: Env, database: string): Fixtures {
+  const q = (sql: string) => psql(env, sql, database) as string;
+  // A permit in the middle of the register, active, so its page and status page show the usual case.
+  const [permitId, code] = q(
+    `SELECT id, verification_code FROM permit WHERE state = 'active' AND valid_from <= current_date ORDER BY number OFFSET (SELECT count(*) / 2 FROM permit WHERE state = 'active') / 2 LIMIT 1`,
+  ).split("|");
+  const drafts = q(`SELECT id FROM application WHERE title LIKE 'Bench autosave draft %' ORDER BY title`).split("\n");
+  const [step, draft] = q(`SELECT draft_step, draft FROM application WHERE id = '${drafts[0]}'`).split("|");
+  const setup = JSON.parse(
+    q(`SELECT setup FROM apparatus_revision WHERE tier = 3 ORDER BY created_at LIMIT 1`),
+  ) as unknown;
+  return { permitId, code, drafts, draftBody: { step: Number(step), draft: JSON.parse(draft) }, setup };
+}
+
+/** Autosave keeps its own version per draft; each run starts from version 1 (an autosave renames the draft, so by id). */
+function resetDrafts(env: Env, database: string, f: Fixtures) {
+  psql(env, `UPDATE application SET version = 1 WHERE id IN (${f.drafts.map((d) => `'${d}'`).join(",")})`, database);
+}
+
+function requestHeaders(app: { url: string; cookies: Record<string, string> }, t: Target): Record<string, string> {
+  const headers: Record<string, string> = { "x-forwarded-for": CAPTURE_ADDRESS };
+  if (t.user) headers.cookie = app.cookies[t.user];
+  if (t.method !== "GET") {
+    headers["content-type"] = "application/json";
+    headers.origin = app.url;
+  }
+  return headers;
+}
+
+function autosaveBody(f: Fixtures, version: number): string {
+  return JSON.stringify({ expectedVersion: version, step: f.draftBody.step, draft: f.draftBody.draft });
+}
+
+/** One request, as the load generator sends it, for capture and warm-up. */
+async function once(app: App, t: Target, f: Fixtures): Promise<number> {
+  const res: Response = await fetch(app.url + t.path.replace("{draft}", f.drafts[0]), {
+    method: t.method,
+    headers: requestHeaders(app, t),
+    body: t.autosave ? autosaveBody(f, 1) : t.body,
+    redirect: "manual",
+  });
+  const text = await res.text();
+  if (res.status >= 400) console.error(`  ${t.method} ${t.path} → ${res.status}: ${text.slice(0, 300)}`);
+  return res.status;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Capture
+
+type Plan = { captureAddress: string; routes: Record<string, { statements: Statement[]; file?: string }> };
+
+async function capture(env: Env, database: string, app: App, list: Target[], f: Fixtures): Promise<Plan> {
+  const { log } = pgPaths();
+  // Warm every route first (module loading, the PDF rendered and stored once).
+  for (const t of list) {
+    const status = await once(app, t, f);
+    if (status >= 400) throw new Error(`${t.path} answered ${status} while warming up`);
+  }
+  resetDrafts(env, database, f);
+  psql(env, `ALTER DATABASE ${database} SET log_statement = 'all'`);
+  // Connections made before the setting keep the old one: let the app's pool reconnect.
+  psql(
+    env,
+    `SELECT pg_terminate_backend(pid) FROM pg_stat_activity WHERE datname = '${database}' AND pid <> pg_backend_pid()`,
+  );
+  await sleep(300);
+  await once(app, list[0], f); // a reconnecting request, not captured
+  const routes: Plan["routes"] = {};
+  try {
+    for (const t of list) {
+      const from = fs.statSync(log).size;
+      const status = await once(app, t, f);
+      if (status >= 400) throw new Error(`${t.path} answered ${status} while capturing`);
+      await sleep(150);
+      const fd = fs.openSync(log, "r");
+      const length = fs.statSync(log).size - from;
+      const buffer = Buffer.alloc(length);
+      fs.readSync(fd, buffer, 0, length, from);
+      fs.closeSync(fd);
+      const appPids = new Set(
+        (
+          psql(
+            env,
+            `SELECT pid FROM pg_stat_activity WHERE datname = '${database}' AND application_name = 'benchclear'`,
+          ) as string
+        )
+          .split("\n")
+          .filter(Boolean)
+          .map(Number),
+      );
+      const statements = statementsFromLog(buffer.toString("utf8"), appPids);
+      routes[t.name] = { statements };
+      if (t.pdf) {
+        const key = psql(env, `SELECT pdf_key FROM permit WHERE id = '${f.permitId}'`, database) as string;
+        routes[t.name].file = path.join(BENCH_DIR, "uploads", key);
+      }
+    }
+  } finally {
+    psql(env, `ALTER DATABASE ${database} RESET log_statement`);
+    psql(
+      env,
+      `SELECT pg_terminate_backend(pid) FROM pg_stat_activity WHERE datname = '${database}' AND pid <> pg_backend_pid()`,
+    );
+  }
+  resetDrafts(env, database, f);
+  return { captureAddress: CAPTURE_ADDRESS, routes };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Load
+
+type Measure = { rps: number; p50: number; p95: number; p99: number; requests: number; errors: number };
+
+let clientCounter = 0;
+function nextClientAddress(): string {
+  clientCounter++;
+  return `10.${(clientCounter >> 16) & 255}.${(clientCounter >> 8) & 255}.${clientCounter & 255}`;
+}
+
+async function load(
+  url: string,
+  t: Target,
+  headers: Record<string, string>,
+  f: Fixtures,
+  forApp: boolean,
+): Promise<Measure> {
+  const times: number[] = [];
+  let nextDraft = 0;
+  type Ctx = { draft?: string; version?: number };
+  const request = {
+    method: t.method,
+    path: t.path,
+    headers,
+    body: t.body,
+    setupRequest: (req: Record<string, unknown>, context: Ctx) => {
+      const out: Record<string, unknown> = { ...req };
+      if (t.perClient) out.headers = { ...(req.headers as object), "x-forwarded-for": nextClientAddress() };
+      if (t.autosave) {
+        if (context.draft === undefined) {
+          context.draft = f.drafts[nextDraft++ % f.drafts.length];
+          context.version = 1;
+        }
+        out.path = forApp ? t.path.replace("{draft}", context.draft) : t.path;
+        out.body = autosaveBody(f, context.version!);
+      }
+      return out;
+    },
+    onResponse: (status: number, body: string, context: Ctx) => {
+      if (t.autosave && status === 200) {
+        try {
+          context.version = (JSON.parse(body) as { application: { version: number } }).application.version;
+        } catch {
+          // the baseline's answer carries no version
+        }
+      }
+    },
+  };
+  const instance = autocannon({
+    url,
+    connections: CONNECTIONS,
+    duration: DURATION_S,
+    requests: [request],
+    timeout: 30,
+  });
+  instance.on("response", (_client: unknown, _status: number, _bytes: number, ms: number) => times.push(ms));
+  const result = await instance;
+  times.sort((a, b) => a - b);
+  return {
+    rps: round(result.requests.total / DURATION_S, 0),
+    p50: round(percentile(times, 50)),
+    p95: round(percentile(times, 95)),
+    p99: round(percentile(times, 99)),
+    requests: result.requests.total,
+    errors: result.errors + result.timeouts + result.non2xx,
+  };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Plans
+
+type PlanCheck = { route: string; statement: string; ms: number; seqScans: { table: string; rows: number }[] };
+
+async function explainAll(env: Env, database: string, plan: Plan, list: Target[]): Promise<PlanCheck[]> {
+  const { Client } = (await import("pg")).default;
+  const client = new Client({ connectionString: databaseUrlFor(env, database) });
+  await client.connect();
+  const sizes = new Map<string, number>(
+    (
+      await client.query<{ relname: string; n: number }>(
+        `SELECT relname, reltuples::bigint AS n FROM pg_class WHERE relkind = 'r'`,
+      )
+    ).rows.map((r) => [r.relname, Number(r.n)]),
+  );
+  const checks: PlanCheck[] = [];
+  try {
+    for (const t of list) {
+      for (const s of plan.routes[t.name]?.statements ?? []) {
+        if (!/^\s*(select|with)\b/i.test(s.text) || /insert|update|delete/i.test(s.text)) continue;
+        const res = await client.query(`EXPLAIN (ANALYZE, BUFFERS, FORMAT JSON) ${s.text}`, s.params);
+        const root = (res.rows[0] as Record<string, [{ Plan: PlanNode; "Execution Time": number }]>)["QUERY PLAN"][0];
+        const seqScans: PlanCheck["seqScans"] = [];
+        const walk = (node: PlanNode) => {
+          if (node["Node Type"] === "Seq Scan" && node["Relation Name"]) {
+            const rows = sizes.get(node["Relation Name"]) ?? 0;
+            if (rows > LARGE_TABLE_ROWS) seqScans.push({ table: node["Relation Name"], rows });
+          }
+          for (const child of node.Plans ?? []) walk(child);
+        };
+        walk(root.Plan);
+        checks.push({
+          route: t.name,
+          statement: s.text.replace(/\s+/g, " ").slice(0, 160),
+          ms: round(root["Execution Time"], 2),
+          seqScans,
+        });
+      }
+    }
+  } finally {
+    await client.end();
+  }
+  return checks;
+}
+type PlanNode = { "Node Type": string; "Relation Name"?: string; Plans?: PlanNode[] };
+
+// ---------------------------------------------------------------------------------------------
+// First-load JavaScript
+
+function gzipGet(
+  url: string,
+  headers: Record<string, string>,
+): Promise<{ status: number; bytes: number; body: Buffer }> {
+  return new Promise((resolve, reject) => {
+    http
+      .get(url, { headers: { ...headers, "accept-encoding": "gzip" } }, (res) => {
+        const chunks: Buffer[] = [];
+        res.on("data", (c: Buffer) => chunks.push(c));
+        res.on("end", () => {
+          const raw = Buffer.concat(chunks);
+          const body = res.headers["content-encoding"] === "gzip" ? zlib.gunzipSync(raw) : raw;
+          // What a browser downloads: the gzip answer's bytes (gzipped here when the server did not).
+          const bytes = res.headers["content-encoding"] === "gzip" ? raw.length : zlib.gzipSync(raw).length;
+          resolve({ status: res.statusCode ?? 0, bytes, body });
+        });
+      })
+      .on("error", reject);
+  });
+}
+
+type JsSize = { route: string; kb: number; files: number };
+
+async function firstLoadJs(app: App, f: Fixtures): Promise<{ runtimeKb: number; routes: JsSize[] }> {
+  const distDir = process.env.NEXT_DIST_DIR ?? ".next";
+  const manifest = JSON.parse(fs.readFileSync(path.join(root, distDir, "build-manifest.json"), "utf8")) as {
+    rootMainFiles: string[];
+  };
+  let runtime = 0;
+  for (const file of manifest.rootMainFiles) runtime += (await gzipGet(`${app.url}/_next/${file}`, {})).bytes;
+  const pages: { route: string; path: string; user: keyof App["cookies"] | null }[] = [
+    { route: "/verify/[code]", path: `/verify/${f.code}`, user: null },
+    { route: "/sign-in", path: "/sign-in", user: null },
+    { route: "/applications/new", path: "/applications/new", user: "instructor" },
+    { route: "/", path: "/", user: "officer" },
+    { route: "/permits", path: "/permits", user: "officer" },
+    { route: "/permits/[id]", path: `/permits/${f.permitId}`, user: "officer" },
+    { route: "/review", path: "/review", user: "officer" },
+  ];
+  const routes: JsSize[] = [];
+  for (const p of pages) {
+    const headers: Record<string, string> = { "x-forwarded-for": "198.51.100.10" };
+    if (p.user) headers.cookie = app.cookies[p.user];
+    const page = await gzipGet(app.url + p.path, headers);
+    if (page.status !== 200) throw new Error(`${p.path} answered ${page.status}`);
+    const html = page.body.toString("utf8");
+    // Module scripts only: nomodule polyfills are not downloaded by current browsers.
+    const srcs = new Set(
+      [...html.matchAll(/<script\b([^>]*)>/g)]
+        .filter((m) => !/\bnomodule\b/i.test(m[1]))
+        .map((m) => /\bsrc="([^"]+)"/.exec(m[1])?.[1])
+        .filter((s): s is string => Boolean(s)),
+    );
+    let bytes = 0;
+    for (const src of srcs) bytes += (await gzipGet(new URL(src.replace(/&amp;/g, "&"), app.url).toString(), {})).bytes;
+    routes.push({ route: p.route, kb: round(bytes / 1024), files: srcs.size });
+  }
+  return { runtimeKb: round(runtime / 1024), routes };
+}
+
+// ---------------------------------------------------------------------------------------------
+// PDF renders (a process of its own, with --expose-gc)
+
+type PdfFigures = { renders: number; medianMs: number; p95Ms: number; rssGrowthMb: number; heapGrowthMb: number };
+
+function pdfFigures(renders: number): PdfFigures {
+  const result = spawnSync(bin("tsx"), ["scripts/bench/pdf.ts", String(renders), "--json"], {
+    cwd: root,
+    encoding: "utf8",
+    env: { ...process.env, NODE_OPTIONS: "--expose-gc" },
+  });
+  if (result.status !== 0) throw new Error(`the PDF benchmark failed: ${result.stderr}`);
+  return JSON.parse(result.stdout.trim().split("\n").at(-1)!) as PdfFigures;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Main
+
+export type RouteResult = {
+  name: string;
+  label: string;
+  list: boolean;
+  app: Measure;
+  baseline: Measure;
+  ratio: number;
+};
+export type SizeResult = {
+  permits: number;
+  dataset: Dataset;
+  routes: RouteResult[];
+  plans: PlanCheck[];
+  rssIdleMb: number;
+  rssAfterMb: number;
+};
+export type BenchResult = {
+  startedAt: string;
+  machine: { cpus: number; loadAverage: number[]; node: string };
+  durationS: number;
+  connections: number;
+  sizes: SizeResult[];
+  js: { runtimeKb: number; routes: JsSize[] } | null;
+  pdf: PdfFigures | null;
+  failures: string[];
+};
+
+async function main() {
+  const os = await import("node:os");
+  fs.mkdirSync(BENCH_DIR, { recursive: true });
+  const env = localEnv() as Env;
+  registerUser();
+  const children: ChildProcess[] = [];
+  const stopAll = async () => {
+    for (const c of children) await stopChild(c);
+  };
+  const onSignal = async () => {
+    await stopAll();
+    releasePg();
+    process.exit(130);
+  };
+  process.on("SIGINT", onSignal);
+  process.on("SIGTERM", onSignal);
+
+  const result: BenchResult = {
+    startedAt: new Date().toISOString(),
+    machine: { cpus: os.cpus().length, loadAverage: os.loadavg().map((x) => round(x, 2)), node: process.version },
+    durationS: DURATION_S,
+    connections: CONNECTIONS,
+    sizes: [],
+    js: null,
+    pdf: null,
+    failures: [],
+  };
+  try {
+    await pgUp(env);
+    if (!SMOKE) ensureBuild({ ...(process.env as Env), ...env });
+    const base = `${DB_PREFIX}_base`;
+    const baseInfo = ensureBase(env, base);
+    console.log(baseInfo.reused ? "▸ base database reused" : `▸ base database made in ${round(baseInfo.seconds)} s`);
+
+    for (const n of SIZES) {
+      const database = `${DB_PREFIX}_${n}`;
+      console.log(`▸ ${n} permits: generating`);
+      const dataset = makeDataset(env, base, database, n);
+      console.log(`  ${JSON.stringify(dataset.counts)} in ${round(dataset.seconds)} s`);
+      const f = fixtures(env, database);
+      const list = targets(f);
+      const app = await startApp(env, database);
+      children.push(app.child);
+      const plan = await capture(env, database, app, list, f);
+      const planFile = path.join(BENCH_DIR, `plan-${n}.json`);
+      fs.writeFileSync(planFile, JSON.stringify(plan, null, 1));
+      await requireFreePort(BASE_PORT, "the benchmark's baseline server", "BENCH_BASELINE_PORT");
+      const baseline = startChild(
+        "bench baseline",
+        process.execPath,
+        ["scripts/bench/baseline.mjs", planFile, String(BASE_PORT)],
+        {
+          env: { ...process.env, DATABASE_URL: databaseUrlFor(env, database) },
+          stdio: ["ignore", "ignore", "inherit"],
+        },
+      );
+      children.push(baseline);
+      await waitForHttp(`http://127.0.0.1:${BASE_PORT}/status`, { child: baseline });
+      await sleep(1000);
+      const rssIdleMb = treeRssMb(app.child.pid!);
+
+      if (WITH_JS && !result.js) result.js = await firstLoadJs(app, f);
+
+      const routes: RouteResult[] = [];
+      for (const t of list) {
+        resetDrafts(env, database, f);
+        const appM = await load(app.url, t, requestHeaders(app, t), f, true);
+        const baseM = await load(
+          `http://127.0.0.1:${BASE_PORT}`,
+          { ...t, path: `/${t.name}` },
+          requestHeaders(app, t),
+          f,
+          false,
+        );
+        const ratio = baseM.rps > 0 ? round(appM.rps / baseM.rps, 3) : 0;
+        routes.push({ name: t.name, label: t.label, list: Boolean(t.list), app: appM, baseline: baseM, ratio });
+        console.log(
+          `  ${t.name.padEnd(16)} app ${String(appM.rps).padStart(6)} req/s p50 ${appM.p50} ms p95 ${appM.p95} ms err ${appM.errors}` +
+            ` · baseline ${String(baseM.rps).padStart(6)} req/s p95 ${baseM.p95} ms err ${baseM.errors} · ratio ${ratio}`,
+        );
+        if (appM.errors) result.failures.push(`${n} permits: ${t.name} had ${appM.errors} errors on the app`);
+        if (baseM.errors) result.failures.push(`${n} permits: ${t.name} had ${baseM.errors} errors on the baseline`);
+      }
+      const rssAfterMb = treeRssMb(app.child.pid!);
+      const plans = await explainAll(
+        env,
+        database,
+        plan,
+        list.filter((t) => t.list || t.name === "status"),
+      );
+      for (const p of plans) {
+        if (p.seqScans.length && n >= 100_000) {
+          result.failures.push(
+            `${n} permits: ${p.route} scans ${p.seqScans.map((s) => `${s.table} (${s.rows} rows)`).join(", ")} sequentially: ${p.statement}`,
+          );
+        }
+      }
+      result.sizes.push({ permits: n, dataset, routes, plans, rssIdleMb, rssAfterMb });
+      await stopChild(baseline);
+      await stopChild(app.child);
+      children.length = 0;
+      if (!SMOKE) psql(env, `DROP DATABASE IF EXISTS ${database} WITH (FORCE)`);
+    }
+    if (WITH_PDF) result.pdf = pdfFigures(SMOKE ? 5 : 200);
+  } finally {
+    await stopAll();
+    releasePg();
+  }
+
+  const stamp = result.startedAt.replace(/[:.]/g, "-");
+  const json = path.join(BENCH_DIR, `${SMOKE ? "smoke" : "bench"}-${stamp}.json`);
+  fs.writeFileSync(json, JSON.stringify(result, null, 2));
+  fs.writeFileSync(path.join(BENCH_DIR, SMOKE ? "smoke-latest.json" : "latest.json"), JSON.stringify(result, null, 2));
+  const markdown = renderMarkdown(result);
+  console.log("\n" + markdown);
+  if (OUT) fs.writeFileSync(path.resolve(root, OUT), markdown);
+  console.log(`JSON: ${path.relative(root, json)}${OUT ? `; tables: ${OUT}` : ""}`);
+  if (result.failures.length) {
+    console.error(`\nThe run failed:\n${result.failures.map((f) => `  - ${f}`).join("\n")}`);
+    process.exit(1);
+  }
+}
+
+main().catch((error: unknown) => {
+  console.error(error);
+  process.exit(1);
+});
