@@ -18,8 +18,8 @@ function inputsHash(): string {
       .filter((f) => f.endsWith(".sql"))
       .sort()
       .map((f) => `db/migrations/${f}`),
-    "db/seed.ts",
-    "db/seed-story.ts",
+    "scripts/demo-data.ts",
+    "scripts/demo-story.ts",
   ];
   for (const f of files) hash.update(f).update(fs.readFileSync(path.join(root, f)));
   return hash.digest("hex").slice(0, 16);
@@ -41,8 +41,8 @@ export function ensureBase(env: Env, base: string): { reused: boolean; seconds: 
   psql(env, `DROP DATABASE IF EXISTS ${base} WITH (FORCE)`);
   psql(env, `CREATE DATABASE ${base}`);
   const dbEnv = { ...process.env, ...env, DATABASE_URL: databaseUrlFor(env, base), NODE_ENV: "development" };
-  run(bin("tsx"), ["db/migrate.ts"], { env: dbEnv, stdio: ["ignore", "ignore", "inherit"] });
-  run(bin("tsx"), ["db/seed.ts"], { env: dbEnv, stdio: ["ignore", "ignore", "inherit"] });
+  run(bin("tsx"), ["scripts/migrate.ts"], { env: dbEnv, stdio: ["ignore", "ignore", "inherit"] });
+  run(bin("tsx"), ["scripts/demo-data.ts"], { env: dbEnv, stdio: ["ignore", "ignore", "inherit"] });
   psql(env, `COMMENT ON DATABASE ${base} IS '${want}'`);
   return { reused: false, seconds: (Date.now() - started) / 1000 };
 }
