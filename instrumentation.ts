@@ -6,7 +6,23 @@ export async function register() {
   if (process.env.NEXT_RUNTIME !== "nodejs") return;
   const { env } = await import("@/lib/env");
   const config = env();
-  if (!config.WORKER_IN_APP || process.env.NEXT_PHASE === "phase-production-build") return;
+  if (process.env.NEXT_PHASE === "phase-production-build") return;
+  // Behind a load balancer (`npm run cluster`, docs/deploy.md) the server drains before it stops:
+  // readiness answers 503 first, requests in flight finish, then the worker and the pool close.
+  if (process.env.NEXT_MANUAL_SIG_HANDLE) {
+    const { installGracefulShutdown } = await import("@/lib/ops/lifecycle");
+    installGracefulShutdown({
+      drainMs: config.SHUTDOWN_DRAIN_MS,
+      timeoutMs: config.SHUTDOWN_TIMEOUT_MS,
+      onStop: async () => {
+        const running = (globalThis as { benchclearWorker?: Promise<{ stop(): Promise<void> }> }).benchclearWorker;
+        if (running) await (await running.catch(() => null))?.stop();
+        const { closeDb } = await import("@/db");
+        await closeDb();
+      },
+    });
+  }
+  if (!config.WORKER_IN_APP) return;
   const { startWorkerOnce } = await import("@/lib/jobs/worker");
   // The web server keeps serving when the worker cannot start (the database is still coming up):
   // mail waits in the outbox, and the start is tried again with a growing delay (5 s up to 5 min).

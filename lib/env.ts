@@ -35,6 +35,10 @@ export const envSchema = z
     S3_SECRET_ACCESS_KEY: z.string().optional(),
     S3_FORCE_PATH_STYLE: bool,
     WORKER_IN_APP: bool,
+    // Graceful shutdown behind a load balancer (active with NEXT_MANUAL_SIG_HANDLE=true): how long a
+    // server keeps serving while readiness says 503, then how long it waits for requests in flight.
+    SHUTDOWN_DRAIN_MS: z.coerce.number().int().min(0).max(120_000).default(2_000),
+    SHUTDOWN_TIMEOUT_MS: z.coerce.number().int().min(1_000).max(300_000).default(25_000),
     LOG_INVITATION_LINKS: bool,
     // Where the local inbox keeps messages (read by /dev/mail).
     LOCAL_INBOX_DIR: z.string().min(1).default(".data/mail"),

@@ -133,7 +133,8 @@ async function main() {
     "Vitest",
     bin("vitest"),
     ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${report}`, ...vitestArgs],
-    { ...testEnv, TEST_BASE_URL: baseUrl },
+    // The cluster tests start more servers of the same build.
+    { ...testEnv, TEST_BASE_URL: baseUrl, TEST_DIST_DIR: distDir, TEST_PORT: String(TEST_PORT), TEST_DB_NAME: TEST_DB },
   );
 
   await stopAllChildren();

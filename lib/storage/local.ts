@@ -44,4 +44,9 @@ export class LocalStorage implements Storage {
   async delete(key: string): Promise<void> {
     await fs.rm(this.file(key), { force: true });
   }
+
+  async check(): Promise<void> {
+    await fs.mkdir(this.root, { recursive: true });
+    await fs.access(this.root, fs.constants.R_OK | fs.constants.W_OK);
+  }
 }

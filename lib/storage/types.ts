@@ -9,6 +9,8 @@ export interface Storage {
   get(key: string): Promise<Buffer | null>;
   exists(key: string): Promise<boolean>;
   delete(key: string): Promise<void>;
+  /** Resolves when the store can be written and read (readiness); rejects otherwise. */
+  check(): Promise<void>;
 }
 
 // Lower-case letters, digits and `/_.-`, at most 201 characters; no `..` or `//` (checked below).

@@ -140,13 +140,13 @@ export async function requireFreePort(port, what, variable) {
   }
 }
 
-export async function waitForHttp(url, { timeoutMs = 60_000, child } = {}) {
+export async function waitForHttp(url, { timeoutMs = 60_000, child, okOnly = false } = {}) {
   const deadline = Date.now() + timeoutMs;
   while (Date.now() < deadline) {
     if (child && child.exitCode !== null) throw new SetupError(`the server exited with code ${child.exitCode}`);
     try {
       const res = await fetch(url, { redirect: "manual" });
-      if (res.status < 500) return;
+      if (okOnly ? res.status === 200 : res.status < 500) return;
     } catch {
       // not up yet
     }
