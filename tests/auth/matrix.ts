@@ -4,9 +4,10 @@
 import { ACCOUNT_ROWS } from "./matrix-rows/accounts";
 import { APPLICATION_ROWS } from "./matrix-rows/applications";
 import { MAIL_ROWS } from "./matrix-rows/mail";
+import { OPERATIONS_ROWS } from "./matrix-rows/operations";
 import { PDF_VERIFY_ROWS } from "./matrix-rows/pdf-verify";
 import { REVIEW_ROWS } from "./matrix-rows/review";
 
 export type { MatrixRow, Principal, Expectation, MatrixContext } from "./matrix-kit";
 
-export const MATRIX = [...ACCOUNT_ROWS, ...APPLICATION_ROWS, ...MAIL_ROWS, ...PDF_VERIFY_ROWS, ...REVIEW_ROWS];
+export const MATRIX = [...ACCOUNT_ROWS, ...APPLICATION_ROWS, ...MAIL_ROWS, ...OPERATIONS_ROWS, ...PDF_VERIFY_ROWS, ...REVIEW_ROWS];
