@@ -10,4 +10,11 @@ import { REVIEW_ROWS } from "./matrix-rows/review";
 
 export type { MatrixRow, Principal, Expectation, MatrixContext } from "./matrix-kit";
 
-export const MATRIX = [...ACCOUNT_ROWS, ...APPLICATION_ROWS, ...MAIL_ROWS, ...OPERATIONS_ROWS, ...PDF_VERIFY_ROWS, ...REVIEW_ROWS];
+export const MATRIX = [
+  ...ACCOUNT_ROWS,
+  ...APPLICATION_ROWS,
+  ...MAIL_ROWS,
+  ...OPERATIONS_ROWS,
+  ...PDF_VERIFY_ROWS,
+  ...REVIEW_ROWS,
+];

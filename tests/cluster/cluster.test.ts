@@ -116,8 +116,9 @@ describe("two app servers behind the load balancer", () => {
   });
 
   it("renders a permit PDF once: the other server serves it from storage", async () => {
-    const f = await createPermitFixture();
-    const cookie = await signInAt(cluster.serverUrl("a"), f.holder.email);
+    const holder = await createUser({ roles: ["instructor"] });
+    const f = await createPermitFixture({ holder });
+    const cookie = await signInAt(cluster.serverUrl("a"), holder.email);
     const fromA = await fetch(`${cluster.serverUrl("a")}/permits/${f.permit.id}/pdf`, { headers: { cookie } });
     expect(fromA.status).toBe(200);
     const fromB = await fetch(`${cluster.serverUrl("b")}/permits/${f.permit.id}/pdf`, { headers: { cookie } });
@@ -157,7 +158,12 @@ describe("two app servers behind the load balancer", () => {
         for (const address of to) {
           await queueMail(tx, address, {
             kind: "invitation",
-            data: { name: "Cluster check", invitedBy: "The test", url: `${cluster.url}/sign-in`, expiresAt: "2099-01-01" },
+            data: {
+              name: "Cluster check",
+              invitedBy: "The test",
+              url: `${cluster.url}/sign-in`,
+              expiresAt: "2099-01-01",
+            },
           });
         }
       });
@@ -179,7 +185,12 @@ type Acked = { version: number; title: string };
  * saves its own draft (autosave), one request at a time. Records every failure and the last
  * acknowledged save of each draft.
  */
-async function mixedLoad(cookie: string, drafts: { id: string; version: number }[], ms: number, during: () => Promise<void>) {
+async function mixedLoad(
+  cookie: string,
+  drafts: { id: string; version: number }[],
+  ms: number,
+  during: () => Promise<void>,
+) {
   const load: Load = { ok: 0, failed: [], writes: new Map() };
   const started = Date.now();
   const stopAt = started + ms;
