@@ -79,6 +79,9 @@ export async function startCluster({ env, distDir = ".next", dir, ports, bucket 
     S3_FORCE_PATH_STYLE: "true",
     S3_ACCESS_KEY_ID: "S3RVER",
     S3_SECRET_ACCESS_KEY: "S3RVER",
+    // The SDK's version is pinned with the project (Node 20 here); its notice about future releases
+    // needing Node 22 says nothing about this deployment and would repeat in every process's log.
+    AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: "true",
   };
 
   const s3 = startChild("local S3 store", process.execPath, [path.join("scripts", "local-s3.mjs")], {
