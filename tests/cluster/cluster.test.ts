@@ -14,13 +14,19 @@ import { startCluster, type Cluster, type ServerName } from "@/scripts/lib/clust
 import { pdfBytes } from "../applications/support";
 import { caughtTo, waitFor } from "../jobs/support";
 import { createPermitFixture } from "../pdf/support";
-import { createUser, requireDatabase, TEST_PASSWORD, uniq } from "../support/db";
+import { createDepartment, createUser, requireDatabase, TEST_PASSWORD, uniq } from "../support/db";
 
 requireDatabase();
 
 const basePort = Number(process.env.TEST_PORT ?? 3210);
 const ports = { lb: basePort + 1, a: basePort + 2, b: basePort + 3, s3: basePort + 4 };
 let cluster: Cluster;
+
+/** An instructor who may start drafts (that needs a department). */
+async function instructor() {
+  const department = await createDepartment();
+  return createUser({ roles: ["instructor"], departmentId: department.id });
+}
 
 beforeAll(async () => {
   // The test server's own address must not leak into the cluster: it serves on the balancer's.
@@ -95,7 +101,7 @@ describe("two app servers behind the load balancer", () => {
   });
 
   it("serves through server B a file uploaded through server A (one S3 store)", async () => {
-    const user = await createUser({ roles: ["instructor"] });
+    const user = await instructor();
     const cookie = await signInAt(cluster.serverUrl("a"), user.email);
     const draft = await newDraft(cluster.serverUrl("a"), cookie);
     const form = new FormData();
@@ -246,7 +252,7 @@ async function expectAcknowledgedWritesStored(load: Load) {
 
 describe("losing and restarting servers under load", () => {
   async function loadSetUp() {
-    const user = await createUser({ roles: ["instructor"] });
+    const user = await instructor();
     const cookie = await signInAt(cluster.url, user.email);
     const drafts = await Promise.all(Array.from({ length: 6 }, () => newDraft(cluster.url, cookie)));
     return { cookie, drafts };
