@@ -78,7 +78,7 @@ async function main() {
   }
 
   step("Applying database migrations (once, before any app server starts)");
-  run(bin("tsx"), ["db/migrate.ts"], { env: { ...env, NODE_ENV: "development" } });
+  run(bin("tsx"), ["scripts/migrate.ts"], { env: { ...env, NODE_ENV: "development" } });
   ensureBuild(env);
 
   step(`Starting the local inbox on 127.0.0.1:${MAIL_PORT}`);
@@ -93,7 +93,7 @@ async function main() {
   });
   // The demo data goes through the same S3 store as the servers, so its files are where they look.
   step("Adding the demo data (skipped where it is already there)");
-  run(bin("tsx"), ["db/seed.ts"], { env: { ...cluster.appEnv, NODE_ENV: "development" } });
+  run(bin("tsx"), ["scripts/demo-data.ts"], { env: { ...cluster.appEnv, NODE_ENV: "development" } });
   console.log("");
   step(`Benchclear (cluster) is ready: ${lbUrl}`);
   info("Demo sign-ins (password benchclear-demo-2026): instructor@, reviewer@, officer@, admin@benchclear.test");
