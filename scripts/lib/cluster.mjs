@@ -14,10 +14,10 @@ export function ensureHaproxy() {
 
 /**
  * The load balancer's configuration. Readiness (/api/health/ready) decides who gets traffic: checked
- * every 500 ms, out after 2 failures, back after 2 successes, so a draining server (503 for
- * SHUTDOWN_DRAIN_MS = 2 s) leaves rotation before it stops accepting. A request that could not reach a
- * server at all is sent to the other one; other failures are retried only for methods that are safe
- * to repeat.
+ * every second with up to 4 s for an answer (a busy server is slow, not gone), out after 3 failures,
+ * back after 2 successes, so a draining server (503 for SHUTDOWN_DRAIN_MS = 5 s here) leaves rotation
+ * before it stops accepting. A request that could not reach a server at all is sent to the other one;
+ * other failures are retried only for methods that are safe to repeat.
  */
 export function haproxyConfig({ lbPort, servers }) {
   return `global
@@ -29,6 +29,7 @@ defaults
   timeout client 60s
   timeout server 60s
   timeout http-request 15s
+  timeout check 4s
   retries 3
   option redispatch 1
   retry-on conn-failure empty-response response-timeout
@@ -43,7 +44,7 @@ backend app
   balance roundrobin
   option httpchk GET /api/health/ready
   http-check expect status 200
-  default-server inter 500ms fall 2 rise 2
+  default-server inter 1s fall 3 rise 2
 ${servers.map((s) => `  server ${s.name} 127.0.0.1:${s.port} check`).join("\n")}
 `;
 }
@@ -72,6 +73,8 @@ export async function startCluster({ env, distDir = ".next", dir, ports, bucket 
     TRUSTED_PROXY_HOPS: "1",
     WORKER_IN_APP: "false",
     NEXT_MANUAL_SIG_HANDLE: "true",
+    // Longer than the balancer needs to see three failed checks (3 × 1 s, each up to 4 s when busy).
+    SHUTDOWN_DRAIN_MS: env.SHUTDOWN_DRAIN_MS ?? "5000",
     STORAGE_DRIVER: "s3",
     S3_BUCKET: bucket,
     S3_ENDPOINT: `http://127.0.0.1:${ports.s3}`,
