@@ -199,7 +199,11 @@ async function mixedLoad(
 ) {
   const load: Load = { ok: 0, failed: [], writes: new Map() };
   const started = Date.now();
-  const stopAt = started + ms;
+  // The load runs for at least `ms`, and on until what happens `during` it has finished, plus 2 s.
+  let stopAt = started + ms;
+  const happening = during().then(() => {
+    stopAt = Math.max(stopAt, Date.now() + 2_000);
+  });
   const loops = drafts.map(async (draft, i) => {
     let version = draft.version;
     let n = 0;
@@ -233,7 +237,8 @@ async function mixedLoad(
       }
     }
   });
-  await Promise.all([...loops, during()]);
+  await happening;
+  await Promise.all(loops);
   return load;
 }
 
@@ -279,13 +284,13 @@ describe("losing and restarting servers under load", () => {
 
   it("loses no request in a rolling restart (SIGTERM A, then B)", async () => {
     const { cookie, drafts } = await loadSetUp();
-    const load = await mixedLoad(cookie, drafts, 40_000, async () => {
+    const load = await mixedLoad(cookie, drafts, 5_000, async () => {
       await new Promise((r) => setTimeout(r, 1_000));
       for (const name of ["a", "b"] as const) {
         await cluster.signalServer(name, "SIGTERM");
         await cluster.startServer(name);
-        // The balancer needs two good checks (2 × 500 ms) to send traffic to it again.
-        await new Promise((r) => setTimeout(r, 1_500));
+        // The balancer needs two good checks (2 × 1 s) before it sends traffic to it again.
+        await new Promise((r) => setTimeout(r, 3_000));
       }
     });
     console.log(`[cluster] rolling restart under load: ${load.ok} requests answered 2xx, ${load.failed.length} failed`);
