@@ -137,6 +137,16 @@ const AMBIGUOUS: Readonly<Record<string, string>> = {
   Mfd: "old capacitor labels use Mfd for microfarad; write µF or uF",
 };
 
+/** Lower-case spellings with two readings: never read leniently. */
+const LOWER_AMBIGUOUS: ReadonlyMap<string, string> = new Map([
+  ["mf", "millifarad (mF) or, on old labels, microfarad (µF)"],
+  ["mfd", "microfarad on old labels"],
+  ["mohm", "milliohm (mΩ) or megaohm (MΩ)"],
+  ["mohms", "milliohm (mΩ) or megaohm (MΩ)"],
+  ["mv", "millivolt (mV) or megavolt (MV)"],
+  ["ma", "milliampere (mA) or megaampere (MA)"],
+]);
+
 /** Spellings offered when a unit is not recognised but matches one of these ignoring case. */
 const COMMON_SPELLINGS: Readonly<Record<Dimension, readonly string[]>> = {
   capacitance: ["pF", "nF", "µF", "uF", "mF", "F"],
@@ -194,7 +204,13 @@ function fail(code: QuantityErrorCode, dimension: Dimension, message: string): P
  * ("MF", "mohm"), decimal commas (1,000 could be a thousand or one) and non-finite numbers.
  */
 export function parseQuantity(text: string, expected: Dimension): ParseQuantityResult {
-  const trimmed = text.trim();
+  // Digits grouped by three with spaces ("1 000 pF", also thin and no-break spaces) have one meaning.
+  const trimmed = text
+    .trim()
+    .replace(
+      /^([+\-\u2212]?\d{1,3})((?:[ \u00a0\u2009\u202f]\d{3})+)(?=\D|$)/,
+      (_m, head: string, groups: string) => head + groups.replace(/[ \u00a0\u2009\u202f]/g, ""),
+    );
   const unitName = BASE_UNIT[expected];
   if (!trimmed) return fail("empty", expected, `Enter a ${expected}, e.g. ${EXAMPLE[expected]}.`);
   if (trimmed.includes(",")) {
@@ -235,14 +251,24 @@ export function parseQuantity(text: string, expected: Dimension): ParseQuantityR
       }
       const lower = symbol.toLowerCase();
       const close = COMMON_SPELLINGS[expected].filter((s) => s.toLowerCase() === lower);
-      const hint = close.length > 0 ? ` Did you mean ${close.join(" or ")}?` : "";
-      return fail(
-        "unknown-unit",
-        expected,
-        `Unknown unit "${symbol}"; this field needs a ${expected} in ${unitName} (e.g. ${EXAMPLE[expected]}).${hint}`,
-      );
+      // Typed in the wrong case ("4.7nf", "40kv", "40 KV"): read it when only one spelling of this
+      // field's units matches; "mf", "mohm" and the like mean two things and are refused.
+      const lenient = close.length === 1 && !LOWER_AMBIGUOUS.has(lower) ? interpretations(close[0]) : [];
+      const read = lenient.find((option) => option.dimension === expected);
+      if (read) {
+        def = read;
+      } else {
+        const hint = close.length > 0 ? ` Did you mean ${close.join(" or ")}?` : "";
+        const why = LOWER_AMBIGUOUS.has(lower) ? ` "${symbol}" could mean ${LOWER_AMBIGUOUS.get(lower)}.` : "";
+        return fail(
+          "unknown-unit",
+          expected,
+          `Unknown unit "${symbol}"; this field needs a ${expected} in ${unitName} (e.g. ${EXAMPLE[expected]}).${why}${hint}`,
+        );
+      }
+    } else {
+      def = fitting;
     }
-    def = fitting;
   }
 
   // Building the decimal string with the combined exponent lets the runtime round once, so "4.7 nF"

@@ -97,10 +97,11 @@ describe("parseQuantity refuses", () => {
     expect(errorOf("10 MFD", "capacitance").code).toBe("ambiguous-unit");
   });
 
-  it("an unknown unit, suggesting the spelling meant", () => {
-    const error = errorOf("30 KV", "voltage");
+  it("an unknown unit with two readings, suggesting the spellings meant", () => {
+    // "30 KV" now reads as 30 kV (one meaning, issue 20 item 6); "30 mv" could be mV or MV
+    const error = errorOf("30 mv", "voltage");
     expect(error.code).toBe("unknown-unit");
-    expect(error.message).toContain("Did you mean kV?");
+    expect(error.message).toContain("Did you mean mV or MV?");
     expect(errorOf("3 furlongs", "length").code).toBe("unknown-unit");
   });
 
@@ -259,5 +260,38 @@ describe("formatQuantity", () => {
       }),
       { numRuns: 500 },
     );
+  });
+});
+
+describe("lenient reading where only one meaning makes sense (issue 20, item 6)", () => {
+  // expected values from mathjs's own unit conversion, not from the parser's prefix table
+  const mj = (text: string, to: string) => unit(text).toNumber(to);
+
+  it.each([
+    ["4.7nf", "capacitance", "4.7 nF", "F"],
+    ["4.7 NF", "capacitance", "4.7 nF", "F"],
+    ["40kv", "voltage", "40 kV", "V"],
+    ["40 KV", "voltage", "40 kV", "V"],
+    ["100 PF", "capacitance", "100 pF", "F"],
+    ["1 000 pF", "capacitance", "1000 pF", "F"],
+    ["1\u2009000\u2009000 pF", "capacitance", "1000000 pF", "F"],
+    ["101 325 Pa", "pressure", "101325 Pa", "Pa"],
+    ["2 kpa", "pressure", "2 kPa", "Pa"],
+  ] as const)("reads %j as a %s", (text, dimension, reference, to) => {
+    const read = parseQuantity(text, dimension);
+    expect(read.ok).toBe(true);
+    if (read.ok) expect(read.value).toBeCloseTo(mj(reference, to), 20);
+  });
+
+  it.each([
+    ["5 mf", "capacitance", "mF"],
+    ["2 MOHM", "resistance", "MΩ"],
+    ["40 mv", "voltage", "MV"],
+    ["1 00 pF", "capacitance", "Unknown unit"],
+    ["1,000 pF", "capacitance", "point"],
+  ] as const)("refuses %j with a suggestion", (text, dimension, suggestion) => {
+    const read = parseQuantity(text, dimension);
+    expect(read.ok).toBe(false);
+    if (!read.ok) expect(read.error.message).toContain(suggestion);
   });
 });
