@@ -1,6 +1,6 @@
 import "server-only";
 import dc from "node:diagnostics_channel";
-import type { Server } from "node:http";
+import type { Server, ServerResponse } from "node:http";
 
 // The server's life between "up" and "gone", for deployments behind a load balancer. On SIGTERM a
 // server first reports "not ready" (GET /api/health/ready → 503) while it keeps serving, so the
@@ -33,12 +33,13 @@ export function installGracefulShutdown(options: Options): void {
   if (s.installed) return;
   s.installed = true;
   dc.subscribe("http.server.request.start", (message) => {
-    const { server } = message as { server: Server };
+    const { server, response } = message as { server: Server; response: ServerResponse };
     s.servers.add(server);
     s.inFlight++;
-  });
-  dc.subscribe("http.server.response.finish", () => {
-    s.inFlight = Math.max(0, s.inFlight - 1);
+    // "close" comes for every response, finished or abandoned by its client ("finish" only for the first).
+    response.once("close", () => {
+      s.inFlight = Math.max(0, s.inFlight - 1);
+    });
   });
 
   const shutdown = async (signal: NodeJS.Signals) => {
