@@ -61,3 +61,27 @@ export const ruleSets = pgTable(
 
 export type Decision = typeof decisions.$inferSelect;
 export type RuleSet = typeof ruleSets.$inferSelect;
+
+// The applicant's answer to a return comment: kept beside the signed decision (which never changes),
+// shown to reviewers on the application page and recorded in the audit trail.
+export const commentReplies = pgTable(
+  "comment_reply",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    applicationId: uuid()
+      .notNull()
+      .references(() => applications.id, { onDelete: "restrict" }),
+    decisionId: uuid()
+      .notNull()
+      .references(() => decisions.id, { onDelete: "restrict" }),
+    authorId: uuid()
+      .notNull()
+      .references(() => users.id, { onDelete: "restrict" }),
+    authorName: text().notNull(),
+    body: text().notNull(),
+    createdAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("comment_reply_application_idx").on(t.applicationId, t.createdAt)],
+);
+
+export type CommentReply = typeof commentReplies.$inferSelect;

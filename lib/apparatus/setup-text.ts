@@ -165,8 +165,8 @@ function sourceFromText(text: SourceText, index: number, issues: PathIssue[]): E
   if (text.kind === "capacitor") {
     const count = text.count.trim();
     if (count !== "") {
-      if (!/^\d+$/.test(count))
-        issues.push({ path: [...at, "count"], message: "Enter the number of capacitors (a whole number)." });
+      if (!/^\d+$/.test(count) || Number(count) < 1)
+        issues.push({ path: [...at, "count"], message: "Enter the number of capacitors (a whole number, 1 or more)." });
       else base.count = Number(count);
     }
     if (text.arrangement) base.arrangement = text.arrangement;
@@ -195,9 +195,18 @@ export function setupFromText(text: SetupText): { setup: SetupInput | null; issu
   }
   if (text.vacuumDevice) setup.vacuumDevice = true;
   if (sources.length === 0) issues.push({ path: ["sources"], message: "Add at least one energy source." });
-  if (issues.length > 0) return { setup: null, issues };
-
   const parsed = setupInputSchema.safeParse(setup);
+  if (issues.length > 0) {
+    // The engine's rules still speak about the values that did read ("0 V"), so each field gets its
+    // message as soon as it is left, not only once every other field is complete.
+    for (const issue of parsed.success ? [] : parsed.error.issues) {
+      const path = issue.path.map((p) => (p === "id" ? "label" : p)) as Path;
+      if (valueAt(setup, issue.path) !== undefined && !issues.some((i) => pathText(i.path) === pathText(path)))
+        issues.push({ path, message: issue.message });
+    }
+    return { setup: null, issues };
+  }
+
   if (!parsed.success) {
     return {
       setup: null,
@@ -262,6 +271,16 @@ export function setupToText(setup: SetupInput): SetupText {
 /** The same set-up in one normal form, to compare two set-ups that may differ only in spelling. */
 export function normalizeSetup(setup: SetupInput): SetupInput | null {
   return setupFromText(setupToText(setup)).setup;
+}
+
+function valueAt(value: unknown, path: readonly PropertyKey[]): unknown {
+  let at = value;
+  for (const key of path) {
+    if (at === null || typeof at !== "object") return undefined;
+    at = (at as Record<PropertyKey, unknown>)[key];
+  }
+  // Only a single typed value counts: a message about a whole source or list is the text's to give.
+  return typeof at === "number" || typeof at === "string" ? at : undefined;
 }
 
 /** "sources[0].capacitance_F" for showing and for 422 answers. */

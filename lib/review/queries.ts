@@ -328,6 +328,7 @@ export async function returnCommentsFor(user: CurrentUser, applicationId: string
   if (!app || app.state !== "returned" || !app.currentRevisionId || !canReadApplication(user, app)) return [];
   return db
     .select({
+      id: decisions.id,
       comment: decisions.comment,
       pinnedTo: decisions.pinnedTo,
       signerName: decisions.signerName,

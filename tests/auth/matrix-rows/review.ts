@@ -1,7 +1,8 @@
 import { eq } from "drizzle-orm";
 import { getDb } from "@/db";
-import { permits, users } from "@/db/schema";
-import { createSubmittedApplication } from "../../review/support";
+import { decisions, permits, users } from "@/db/schema";
+import { decide } from "@/lib/review/actions";
+import { asActor, createSubmittedApplication } from "../../review/support";
 import { createUser, TEST_PASSWORD } from "../../support/db";
 import {
   adminOnly,
@@ -25,6 +26,24 @@ async function waitingApplication(ctx: MatrixContext) {
   const applicant = await createUser({ roles: ["instructor"], departmentId: ctx.users.reviewer.departmentId });
   const { application } = await createSubmittedApplication({ applicant, tier: 3 });
   return { id: application.id, version: String(application.version) };
+}
+
+/** The matrix instructor's application, returned with a comment by a reviewer of its department. */
+async function returnedToInstructor(ctx: MatrixContext) {
+  const applicant = await userRow(ctx.users.instructor.id);
+  const reviewer = await createUser({ roles: ["reviewer"], departmentId: applicant.departmentId });
+  const { application } = await createSubmittedApplication({ applicant, tier: 1 });
+  await decide(asActor(reviewer), application.id, {
+    kind: "return",
+    expectedVersion: application.version,
+    comment: "Measure the gap again.",
+    pinnedTo: "step:2",
+  });
+  const [decision] = await getDb()
+    .select({ id: decisions.id })
+    .from(decisions)
+    .where(eq(decisions.applicationId, application.id));
+  return { id: application.id, decisionId: decision.id };
 }
 
 /** A tier-0 permit (self-certified at submission) held by `holderId`. */
@@ -134,4 +153,13 @@ export const REVIEW_ROWS: MatrixRow[] = [
     expect: adminOnly(201, 401, 403),
   },
   { route: "/admin/rules", method: "PAGE", expect: adminOnly(200, "→/sign-in", "→/forbidden") },
+  // The applicant answers a return comment; reviewers read replies but do not write them here.
+  {
+    route: "/api/applications/[id]/replies",
+    method: "POST",
+    prepare: returnedToInstructor,
+    path: (c) => `/api/applications/${c.data.id}/replies`,
+    body: (c) => ({ decisionId: c.data.decisionId, body: "Measured again: 9.4 mm." }),
+    expect: { anonymous: 401, instructor: 201, reviewer: 404, safety_officer: 404, admin: 403 },
+  },
 ];

@@ -8,6 +8,8 @@ import { FormProvider, useForm, useWatch } from "react-hook-form";
 import { Alert } from "@/app/_components/alert";
 import { Button } from "@/app/_components/button";
 import { Card } from "@/app/_components/card";
+import { useBrowserDraft } from "@/app/_components/forms/use-browser-draft";
+import { useLeaveGuard } from "@/app/_components/forms/use-leave-guard";
 import { controlClasses, Field, FieldShell } from "@/app/_components/field";
 import { LiveFigures } from "@/app/_components/hazard/live-figures";
 import { QueryProvider } from "@/app/_components/hazard/query-provider";
@@ -20,6 +22,8 @@ import type { TierRules } from "@/lib/hazard";
 type ApparatusFormProps = {
   rules: TierRules;
   initial: ApparatusFormValues;
+  /** Names the draft kept in this browser: the user and the record (or "new"). */
+  draftKey: string;
 } & ({ mode: "create" } | { mode: "edit"; apparatusId: string; revision: number });
 
 export function ApparatusForm(props: ApparatusFormProps) {
@@ -32,16 +36,30 @@ export function ApparatusForm(props: ApparatusFormProps) {
 
 type Saved = { apparatus: { id: string; revision: number } };
 
+const draftTime = new Intl.DateTimeFormat("en-GB", {
+  day: "numeric",
+  month: "short",
+  hour: "2-digit",
+  minute: "2-digit",
+});
+
 function ApparatusFormInner(props: ApparatusFormProps) {
   const router = useRouter();
   const [failure, setFailure] = useState<string | null>(null);
   const form = useForm<ApparatusFormValues>({
     resolver: zodResolver(apparatusFormSchema, undefined, { raw: true }),
     defaultValues: props.initial,
+    // A field is checked as soon as it is left (then on every change), not only on submit.
+    mode: "onTouched",
   });
   const setupText = useWatch({ control: form.control, name: "setup" });
   const live = useLiveAssessment(setupText, props.rules);
   const errors = form.formState.errors;
+  // Unsaved typing is kept in this browser and leaving with it asks first (issue: a reload or a
+  // click on Dashboard wiped the form).
+  const draft = useBrowserDraft(form, props.draftKey);
+  const [saved, setSaved] = useState(false);
+  useLeaveGuard(form.formState.isDirty && !saved);
 
   const save = useMutation({
     mutationFn: async (values: ApparatusFormValues) => {
@@ -53,6 +71,8 @@ function ApparatusFormInner(props: ApparatusFormProps) {
       });
     },
     onSuccess: (saved) => {
+      draft.clear();
+      setSaved(true);
       router.push(`/apparatus/${saved.apparatus.id}`);
       router.refresh();
     },
@@ -79,6 +99,18 @@ function ApparatusFormInner(props: ApparatusFormProps) {
       <form onSubmit={onSubmit} noValidate className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_20rem]">
         <div className="flex min-w-0 flex-col gap-6">
           <div aria-live="polite">{failure && <Alert tone="error">{failure}</Alert>}</div>
+          {draft.restoredAt && (
+            <Alert tone="info" title="Your unsaved typing is back">
+              <p>
+                What you typed on this device ({draftTime.format(draft.restoredAt)}) was not saved; it is filled in
+                below. Save it, or{" "}
+                <button type="button" className="font-medium underline" onClick={draft.discard}>
+                  discard it
+                </button>
+                .
+              </p>
+            </Alert>
+          )}
           <Card title="Details">
             <div className="grid gap-4 sm:grid-cols-2">
               <Field
@@ -129,7 +161,7 @@ function ApparatusFormInner(props: ApparatusFormProps) {
           </div>
         </div>
         <div className="lg:sticky lg:top-4 lg:self-start">
-          <LiveFigures assessment={live.assessment} problems={live.issues.length} />
+          <LiveFigures live={live} prefix="setup" rules={props.rules} />
         </div>
       </form>
     </FormProvider>

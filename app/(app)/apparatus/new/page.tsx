@@ -9,7 +9,7 @@ import { ApparatusForm } from "../_components/apparatus-form";
 export const metadata: Metadata = { title: "Register apparatus" };
 
 export default async function NewApparatusPage() {
-  await requirePageUser("apparatus.write", "/apparatus/new");
+  const user = await requirePageUser("apparatus.write", "/apparatus/new");
   const rules = await currentTierRules();
   const setup = { ...emptySetupText(), sources: [emptySourceText("capacitor", "C1")] };
   return (
@@ -19,7 +19,12 @@ export default async function NewApparatusPage() {
         title="Register apparatus"
         description="Describe the set-up once; applications can then use it, and every later edit is kept as a revision."
       />
-      <ApparatusForm mode="create" rules={rules} initial={{ name: "", room: "", notes: "", setup }} />
+      <ApparatusForm
+        mode="create"
+        rules={rules}
+        draftKey={`apparatus.new.${user.id}`}
+        initial={{ name: "", room: "", notes: "", setup }}
+      />
     </>
   );
 }

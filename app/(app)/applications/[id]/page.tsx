@@ -11,12 +11,14 @@ import { PageHeader } from "@/app/_components/page-header";
 import { StateBadge } from "@/app/_components/state-badge";
 import { isTier } from "@/app/_components/tier";
 import { TierBadge } from "@/app/_components/tier-badge";
+import { pinLabel, pinOptions } from "@/lib/applications/pins";
 import { requirePageUser } from "@/lib/auth/guards";
 import { addDays } from "@/lib/permits/dates";
 import { institutionToday } from "@/lib/permits/queries";
 import { getApplicationRecord } from "@/lib/review/queries";
+import { repliesFor } from "@/lib/review/replies";
 import { describeChain, STEP_ROLE_LABELS, tierChain } from "@/lib/rules/chain";
-import { FORM_STEPS, STEP_TITLES, type ApplicationContent } from "@/lib/validation/application";
+import type { ApplicationContent } from "@/lib/validation/application";
 import { SignatureList } from "@/app/_components/signature-list";
 import { formatUtc } from "@/app/_components/utc";
 import { ContentSummary } from "./_components/content-summary";
@@ -25,17 +27,6 @@ import { RevisionDiff } from "./_components/revision-diff";
 import { Timeline } from "./_components/timeline";
 
 export const metadata: Metadata = { title: "Application" };
-
-// Comments pin to a form step by the title the applicant sees in the form, or to one of its fields.
-const STEP_PINS = [
-  ...FORM_STEPS.map((step) => ({ value: `step:${step}`, label: `Step ${step} · ${STEP_TITLES[step]}` })),
-  { value: "event.title", label: "Event title" },
-  { value: "event.room", label: "Room or place" },
-  { value: "event.firstDay", label: "First day" },
-  { value: "event.lastDay", label: "Last day" },
-  { value: "event.operators", label: "Operators" },
-  { value: "controls.additional", label: "Additional controls" },
-];
 
 const SIGNED_TEXT = {
   recommend: "Your recommendation is signed and recorded.",
@@ -66,8 +57,8 @@ export default async function ApplicationPage({
   const content = (current?.content ?? application.draft) as Partial<ApplicationContent>;
   const tier = current?.tier ?? application.tier;
   const chain = isTier(tier) ? tierChain(rules, tier) : null;
-  const sources = content.apparatus?.setup?.sources ?? [];
   const comments = record.decisions.filter((d) => d.comment && d.kind !== "revoke");
+  const replies = comments.length > 0 ? await repliesFor(user, application.id) : [];
   const revisionNumber = new Map(record.revisions.map((r) => [r.id, r.revision]));
 
   let panel: React.ReactNode = null;
@@ -87,13 +78,7 @@ export default async function ApplicationPage({
           validityDays={chain.validityDays}
           defaultValidFrom={today}
           defaultValidTo={addDays(today, chain.validityDays - 1)}
-          pinOptions={[
-            ...STEP_PINS,
-            ...sources.map((s, i) => ({
-              value: `apparatus.setup.sources[${i}]`,
-              label: `Energy source ${i + 1}${s.id ? ` (${s.id})` : ""}`,
-            })),
-          ]}
+          pinOptions={pinOptions(content)}
         />
       </Card>
     );
@@ -238,13 +223,19 @@ export default async function ApplicationPage({
                     <p className="whitespace-pre-line text-stone-900">{c.comment}</p>
                     <p className="text-xs text-stone-600">
                       {c.signerName} ({c.signerRole}) on revision {revisionNumber.get(c.revisionId)}
-                      {c.pinnedTo && (
-                        <>
-                          {" "}
-                          · about <span className="figure">{c.pinnedTo}</span>
-                        </>
-                      )}
+                      {c.pinnedTo && <> · about {pinLabel(c.pinnedTo, content)}</>}
                     </p>
+                    {replies
+                      .filter((r) => r.decisionId === c.id)
+                      .map((r) => (
+                        <div key={r.id} className="mt-1 border-l-2 border-stone-300 pl-3" data-testid="comment-reply">
+                          <p className="whitespace-pre-line text-stone-900">{r.body}</p>
+                          <p className="text-xs text-stone-600">
+                            Reply by {r.authorName},{" "}
+                            <time dateTime={isoDate(r.createdAt)}>{formatUtc(r.createdAt)}</time>
+                          </p>
+                        </div>
+                      ))}
                   </li>
                 ))}
               </ul>

@@ -38,6 +38,7 @@ export default async function EditApparatusPage({ params }: PageProps) {
         apparatusId={apparatus.id}
         revision={apparatus.currentRevision}
         rules={rules}
+        draftKey={`apparatus.${apparatus.id}.${user.id}`}
         initial={{
           name: apparatus.current.name,
           room: apparatus.current.room,

@@ -33,6 +33,8 @@ function describe(e: TimelineEvent): string {
       return "Recorded as self-certified: no review at this tier";
     case "application.withdrawn":
       return "Withdrawn";
+    case "application.comment_replied":
+      return `Replied to a return comment: “${str(d.reply)}”`;
     case "permit.issued":
       return `Permit ${str(d.number)} issued, valid ${str(d.validFrom)} to ${str(d.validTo)}`;
     case "permit.revoked":

@@ -1,15 +1,15 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound, redirect } from "next/navigation";
-import { Alert } from "@/app/_components/alert";
-import { formatDateTime } from "@/app/_components/format";
 import { PageHeader } from "@/app/_components/page-header";
 import { listApparatusChoices } from "@/lib/apparatus/queries";
+import { pinLabel, pinStep } from "@/lib/applications/pins";
 import { getDraftForEdit } from "@/lib/applications/queries";
 import { requirePageUser } from "@/lib/auth/guards";
 import { currentTierRules } from "@/lib/hazard-rules";
 import { AppError } from "@/lib/http/errors";
 import { returnCommentsFor } from "@/lib/review/queries";
+import { repliesFor } from "@/lib/review/replies";
 import { ApplicationForm } from "../../new/_form/application-form";
 
 export const metadata: Metadata = { title: "Edit application" };
@@ -29,35 +29,36 @@ export default async function EditApplicationPage({ params }: PageProps) {
   }
   // Submitted and decided applications are read, not edited.
   if (!app.editable) redirect(`/applications/${id}`);
-  const [rules, choices, comments] = await Promise.all([
+  const [rules, choices, comments, replies] = await Promise.all([
     currentTierRules(),
     listApparatusChoices(user),
     returnCommentsFor(user, id),
+    repliesFor(user, id),
   ]);
+  const returnComments = comments.map((c) => ({
+    id: c.id,
+    comment: c.comment ?? "",
+    signerName: c.signerName,
+    signerRole: c.signerRole,
+    signedAt: c.signedAt.toISOString(),
+    pinLabel: c.pinnedTo ? pinLabel(c.pinnedTo, app.draft) : null,
+    pinStep: pinStep(c.pinnedTo),
+    replies: replies
+      .filter((r) => r.decisionId === c.id)
+      .map((r) => ({ id: r.id, body: r.body, authorName: r.authorName, createdAt: r.createdAt.toISOString() })),
+  }));
+  // A returned application opens on the step its newest pinned comment is about (the address's
+  // ?step=, read by the form, still wins: Back, Forward and reloads stay where they were).
+  const pinned = [...returnComments].reverse().find((c) => c.pinStep !== null);
+  const openingStep = app.state === "returned" && pinned?.pinStep ? pinned.pinStep : app.step;
   return (
     <>
       <PageHeader
         eyebrow={<Link href="/applications">Applications</Link>}
         title={app.draft.event.title || "Untitled application"}
-        description={`A-${app.seq} · ${app.state === "returned" ? "returned for changes" : "draft"}. The draft saves itself as you type.`}
+        // The state is said by the form itself, which knows when it has been submitted again.
+        description={`A-${app.seq}. The draft saves itself as you type.`}
       />
-      {comments.length > 0 && (
-        <Alert tone="warn" title="Returned for changes" className="mb-6">
-          <ul className="flex flex-col gap-2">
-            {comments.map((c) => (
-              <li key={c.signedAt.toISOString()}>
-                <p>{c.comment}</p>
-                <p className="text-xs">
-                  {c.signerName} ({c.signerRole}), {formatDateTime(c.signedAt)}
-                  {c.pinnedTo
-                    ? ` · about ${c.pinnedTo.startsWith("step:") ? `step ${c.pinnedTo.slice(5)}` : c.pinnedTo}`
-                    : ""}
-                </p>
-              </li>
-            ))}
-          </ul>
-        </Alert>
-      )}
       <ApplicationForm
         rules={rules}
         choices={choices}
@@ -66,11 +67,12 @@ export default async function EditApplicationPage({ params }: PageProps) {
           seq: app.seq,
           state: app.state as "draft" | "returned",
           version: app.version,
-          step: app.step,
+          step: openingStep,
           draft: app.draft,
           attachments: app.attachments.map(({ createdAt: _createdAt, ...ref }) => ref),
           savedAt: app.updatedAt.toISOString(),
           revisions: app.revisions,
+          returnComments,
         }}
       />
     </>

@@ -11,7 +11,7 @@ import { SetupEditor } from "@/app/_components/hazard/setup-editor";
 import type { LiveAssessment } from "@/app/_components/hazard/use-live-assessment";
 import { setupToText } from "@/lib/apparatus/setup-text";
 import { apiFetch } from "@/lib/client/api";
-import { TIER_LABELS, type SetupInput, type Tier } from "@/lib/hazard";
+import { TIER_LABELS, type SetupInput, type Tier, type TierRules } from "@/lib/hazard";
 import type { ApplicationDraft } from "@/lib/validation/application";
 import { messageAt } from "./errors";
 
@@ -28,19 +28,23 @@ type ApparatusDetail = {
 type ApparatusStepProps = {
   choices: readonly ApparatusChoice[];
   live: LiveAssessment;
+  rules: TierRules;
   /** Remembers the set-up text as picked, so an edit of it can be noticed. */
   onPicked: (setupJson: string) => void;
 };
 
-export function ApparatusStep({ choices, live, onPicked }: ApparatusStepProps) {
+export function ApparatusStep({ choices, live, rules, onPicked }: ApparatusStepProps) {
   const { control, register, setValue, getValues } = useFormContext<ApplicationDraft>();
   const { errors } = useFormState({ control });
   const queryClient = useQueryClient();
-  const [choice, setChoice] = useState("");
   const [pickError, setPickError] = useState<string | null>(null);
   const [picking, setPicking] = useState(false);
   const ids = useWatch({ control, name: ["apparatus.apparatusId", "apparatus.apparatusRevisionId"] });
   const picked = choices.find((c) => c.id === ids[0]);
+  // The picker shows the record in use (from "Use in an application" or an earlier pick), so its
+  // label and the sentence under it agree; choosing another record is a change of the picker only.
+  const [chosen, setChoice] = useState<string | null>(null);
+  const choice = chosen ?? picked?.id ?? "";
 
   async function pick() {
     if (!choice) return;
@@ -94,7 +98,11 @@ export function ApparatusStep({ choices, live, onPicked }: ApparatusStepProps) {
                   </select>
                 )}
               </FieldShell>
-              <Button variant="secondary" onClick={pick} disabled={!choice || picking}>
+              <Button
+                variant="secondary"
+                onClick={pick}
+                disabled={!choice || picking || (choice === ids[0] && Boolean(ids[1]))}
+              >
                 {picking ? "Loading…" : "Use this record"}
               </Button>
             </div>
@@ -146,7 +154,7 @@ export function ApparatusStep({ choices, live, onPicked }: ApparatusStepProps) {
         <SetupEditor prefix="apparatus.setup" />
       </div>
       <div className="lg:sticky lg:top-4 lg:self-start">
-        <LiveFigures assessment={live.assessment} problems={live.issues.length} />
+        <LiveFigures live={live} prefix="apparatus.setup" rules={rules} />
       </div>
     </div>
   );

@@ -1,7 +1,7 @@
 "use client";
 
 import Link from "next/link";
-import { useRouter } from "next/navigation";
+import { useRouter, useSearchParams } from "next/navigation";
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { FormProvider, useForm, useWatch } from "react-hook-form";
 import { Alert } from "@/app/_components/alert";
@@ -27,6 +27,7 @@ import { AttachmentsStep } from "./attachments-step";
 import { ControlsStep } from "./controls-step";
 import { EventStep } from "./event-step";
 import { ResultStep } from "./result-step";
+import { ReturnComments, type ReturnComment } from "./return-comments";
 import { ReviewStep } from "./review-step";
 import { stepResolver } from "./step-resolver";
 import { statusText, useAutosave } from "./use-autosave";
@@ -41,6 +42,8 @@ export type FormInitial = {
   attachments: AttachmentRef[];
   savedAt: string | null;
   revisions: number;
+  /** The reviewers' comments when the application was returned (with the applicant's replies). */
+  returnComments?: ReturnComment[];
 };
 
 type ApplicationFormProps = { initial: FormInitial; rules: TierRules; choices: ApparatusChoice[] };
@@ -59,9 +62,30 @@ function clampStep(step: number): FormStep {
   return (FORM_STEPS.includes(step as FormStep) ? step : 1) as FormStep;
 }
 
+/** The step in the address (`?step=3`), so browser Back and Forward move between steps. */
+function stepFromQuery(value: string | null): FormStep | null {
+  const step = Number(value);
+  return value && FORM_STEPS.includes(step as FormStep) ? (step as FormStep) : null;
+}
+
+/** The edit page of a draft just created, at the step on screen. */
+function editAddress(id: string): string {
+  const step = new URLSearchParams(window.location.search).get("step");
+  return `/applications/${id}/edit${step ? `?step=${step}` : ""}`;
+}
+
+function addressOf(step: FormStep): string {
+  const url = new URL(window.location.href);
+  url.searchParams.set("step", String(step));
+  return `${url.pathname}${url.search}${url.hash}`;
+}
+
 function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps) {
   const router = useRouter();
-  const [step, setStep] = useState<FormStep>(clampStep(initial.step));
+  const searchParams = useSearchParams();
+  // The address is the one place the step lives: Next.js keeps useSearchParams in step with
+  // history.pushState and with Back/Forward, so moving on pushes an entry and Back pops it.
+  const step = stepFromQuery(searchParams.get("step")) ?? clampStep(initial.step);
   const [attachments, setAttachments] = useState<AttachmentRef[]>(initial.attachments);
   const [appId, setAppId] = useState<string | null>(initial.id);
   const [submitted, setSubmitted] = useState<Submitted | null>(null);
@@ -69,13 +93,13 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
   const [submitting, setSubmitting] = useState(false);
   const [withdrawError, setWithdrawError] = useState<string | null>(null);
   const headingRef = useRef<HTMLHeadingElement>(null);
-  const movedRef = useRef(false);
 
   // The resolver validates the step on screen (react-hook-form takes the newest options each render).
   const form = useForm<ApplicationDraft>({
     defaultValues: initial.draft,
     resolver: stepResolver(step, rules),
-    mode: "onSubmit",
+    // A field is checked as soon as it is left (then on every change), not only on "Next".
+    mode: "onTouched",
     reValidateMode: "onChange",
     shouldFocusError: true,
   });
@@ -84,11 +108,14 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
   const live = useLiveAssessment(setupText, rules);
   const tier = (live.assessment?.tier ?? null) as Tier | null;
   const required = useMemo(() => (tier === null ? [] : requiredControls(tier, rules)), [tier, rules]);
-  const onCreated = useCallback((id: string) => {
-    setAppId(id);
-    // The draft exists now: its address is the edit page, so a reload resumes it.
-    window.history.replaceState(null, "", `/applications/${id}/edit`);
-  }, []);
+  const onCreated = useCallback(
+    (id: string) => {
+      setAppId(id);
+      // The draft exists now: its address is the edit page, so a reload resumes it (at the same step).
+      window.history.replaceState(null, "", editAddress(id));
+    },
+    [setAppId],
+  );
   const { status, saver } = useAutosave({
     form,
     initialId: initial.id,
@@ -126,17 +153,24 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
     }
   }, [setupJson, form]);
 
+  // On every change of step (the buttons, or Back and Forward): a clean slate of messages, the
+  // heading in focus, and the step saved with the draft so that reopening resumes there.
+  const shownStep = useRef(step);
   useEffect(() => {
-    if (!movedRef.current) return;
+    if (shownStep.current === step) return;
+    shownStep.current = step;
+    form.clearErrors();
+    saver.markDirty(false);
     headingRef.current?.focus();
     headingRef.current?.scrollIntoView({ block: "start" });
-  }, [step]);
+  }, [step, form, saver]);
 
-  function goTo(next: FormStep) {
-    movedRef.current = true;
-    setStep(next);
-    form.clearErrors();
-    saver.markDirty();
+  async function goTo(next: FormStep) {
+    if (next === step) return;
+    // A new draft gets its address (the edit page) from its first save; wait for it, so the steps'
+    // history entries all belong to that address and Back never returns to an empty form.
+    if (!saver.id && saver.edited) await saver.flush();
+    window.history.pushState(null, "", addressOf(next));
   }
 
   const goNext = (event: React.FormEvent) => form.handleSubmit(() => goTo(Math.min(6, step + 1) as FormStep))(event);
@@ -218,6 +252,9 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
               All my applications
             </ButtonLink>
           </div>
+          {submitted && initial.returnComments && initial.id && (
+            <ReturnComments applicationId={initial.id} comments={initial.returnComments} onGoTo={() => {}} history />
+          )}
         </div>
       </Card>
     );
@@ -259,6 +296,9 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
           </div>
         </div>
         {withdrawError && <Alert tone="error">{withdrawError}</Alert>}
+        {initial.returnComments && initial.id && (
+          <ReturnComments applicationId={initial.id} comments={initial.returnComments} onGoTo={(s) => void goTo(s)} />
+        )}
         {status.kind === "conflict" && (
           <Alert tone="error" title="This draft was saved elsewhere" live>
             <p>{status.message}</p>
@@ -301,7 +341,7 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
               return (
                 <li key={s}>
                   {s < step ? (
-                    <button type="button" className={cx(classes, "hover:bg-stone-50")} onClick={() => goTo(s)}>
+                    <button type="button" className={cx(classes, "hover:bg-stone-50")} onClick={() => void goTo(s)}>
                       {label}
                       <span className="sr-only"> (go back to this step)</span>
                     </button>
@@ -338,13 +378,15 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
               <ApparatusStep
                 choices={choices}
                 live={live}
+                rules={rules}
                 onPicked={(json) => {
                   pickedRef.current = json;
+                  saver.markDirty(true);
                 }}
               />
             )}
             {step === 3 && <ResultStep live={live} rules={rules} />}
-            {step === 4 && <ControlsStep tier={tier} required={required} />}
+            {step === 4 && <ControlsStep tier={tier} required={required} assessment={live.assessment} />}
             {step === 5 && <AttachmentsStep applicationId={appId} initial={attachments} onChange={setAttachments} />}
             {step === 6 && (
               <ReviewStep
@@ -352,7 +394,7 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
                 required={required}
                 attachments={attachments}
                 issues={outstanding}
-                onGoTo={goTo}
+                onGoTo={(s) => void goTo(s)}
               />
             )}
           </Card>
@@ -377,7 +419,7 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
           <div className="mt-4 flex flex-wrap items-center justify-between gap-3">
             <div>
               {step > 1 && (
-                <Button variant="secondary" onClick={() => goTo((step - 1) as FormStep)}>
+                <Button variant="secondary" onClick={() => void goTo((step - 1) as FormStep)}>
                   Back
                 </Button>
               )}

@@ -2,14 +2,15 @@
 
 import { useFormContext, useFormState, useWatch } from "react-hook-form";
 import { controlClasses, FieldShell } from "@/app/_components/field";
-import type { ControlRule, Tier } from "@/lib/hazard";
+import type { Assessment, ControlRule, Tier } from "@/lib/hazard";
 import { TIER_LABELS } from "@/lib/hazard";
 import type { ApplicationDraft } from "@/lib/validation/application";
+import { controlText } from "./control-text";
 import { messageAt } from "./errors";
 
-type ControlsStepProps = { tier: Tier | null; required: readonly ControlRule[] };
+type ControlsStepProps = { tier: Tier | null; required: readonly ControlRule[]; assessment: Assessment | null };
 
-export function ControlsStep({ tier, required }: ControlsStepProps) {
+export function ControlsStep({ tier, required, assessment }: ControlsStepProps) {
   const { control, register } = useFormContext<ApplicationDraft>();
   const { errors } = useFormState({ control });
   const entries = useWatch({ control, name: "controls.required" }) ?? [];
@@ -48,7 +49,7 @@ export function ControlsStep({ tier, required }: ControlsStepProps) {
                       {...register(`controls.required.${index}.confirmed`)}
                     />
                     <span>
-                      {rule.text}
+                      {controlText(rule, assessment)}
                       <span className="block text-xs text-stone-600">Source: {rule.source}.</span>
                     </span>
                   </label>

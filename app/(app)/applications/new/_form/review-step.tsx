@@ -17,6 +17,7 @@ import {
   type AttachmentRef,
   type FormStep,
 } from "@/lib/validation/application";
+import { controlText } from "./control-text";
 import { messageAt } from "./errors";
 
 type ReviewStepProps = {
@@ -129,7 +130,7 @@ export function ReviewStep({ live, required, attachments, issues, onGoTo }: Revi
               return (
                 <li key={rule.id}>
                   <span className="font-medium">{entry?.confirmed ? "Confirmed: " : "Not confirmed: "}</span>
-                  {rule.text}
+                  {controlText(rule, live.assessment)}
                   {entry?.note ? <span className="text-stone-600"> — {entry.note}</span> : null}
                 </li>
               );

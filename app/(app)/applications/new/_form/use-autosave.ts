@@ -10,6 +10,9 @@ import type { ApplicationDraft } from "@/lib/validation/application";
 // carrying the version it edits (409 when the draft was saved elsewhere). A failed save keeps the
 // form exactly as typed and says so; network and server errors are retried with growing pauses,
 // a conflict or a refusal waits for the user.
+// A new application is stored on the first edit the user makes (typing, picking a record), never on
+// opening the page or on values the form fills in itself. Leaving the form (an in-app link, Back)
+// sends a pending change at once instead of dropping it with the timer.
 
 export const AUTOSAVE_DELAY_MS = 800;
 const FIRST_RETRY_MS = 2_000;
@@ -48,6 +51,10 @@ class Autosaver {
   step = 1;
   dirty = false;
   blocked = false;
+  /** The user has changed something since the page opened (a new draft is created only then). */
+  edited = false;
+  /** The form was unmounted: one last save, no retries. */
+  private left = false;
   private inFlight: Promise<boolean> | null = null;
   private timer: ReturnType<typeof setTimeout> | null = null;
   private retryMs = FIRST_RETRY_MS;
@@ -56,7 +63,7 @@ class Autosaver {
 
   constructor(
     private readonly form: UseFormReturn<ApplicationDraft>,
-    private readonly setStatus: (status: SaveStatus) => void,
+    private setStatus: (status: SaveStatus) => void,
     id: string | null,
     version: number,
   ) {
@@ -97,7 +104,11 @@ class Autosaver {
     this.timer = null;
   }
 
-  markDirty() {
+  /** `byUser`: typed or picked by the user, as opposed to a value the form filled in itself. */
+  markDirty(byUser = true) {
+    if (byUser) this.edited = true;
+    // Nothing is stored for a new application until the user has changed something.
+    if (!this.id && !this.edited) return;
     this.dirty = true;
     if (this.blocked) return;
     // "Saved" only ever means everything typed is saved: a pending change already reads as saving.
@@ -153,11 +164,26 @@ class Autosaver {
         this.setStatus({ kind: "refused", message });
       } else {
         this.setStatus({ kind: "retrying", message });
+        if (this.left) return false;
         this.schedule(this.retryMs);
         this.retryMs = Math.min(this.retryMs * 2, LONGEST_RETRY_MS);
       }
       return false;
     }
+  }
+
+  /**
+   * The form is going away (an in-app link, Back): a change still waiting for its timer is sent now,
+   * straight through fetch, because the component and its mutation hook are being unmounted.
+   */
+  leave() {
+    this.cancel();
+    this.left = true;
+    if (!this.dirty || this.blocked) return;
+    this.save = saveRequest;
+    this.setStatus = () => undefined;
+    this.onCreated = () => undefined;
+    void this.run();
   }
 
   /** Saves now (before moving on, uploading or submitting); true when everything is saved. */
@@ -217,7 +243,9 @@ export function useAutosave({ form, initialId, initialVersion, initialSavedAt, s
   }, [saver, step, onCreated, mutateAsync]);
 
   useEffect(() => {
-    const subscription = form.watch(() => saver.markDirty());
+    // react-hook-form marks what an input event changed with its type; setValue and field-array
+    // changes made by the form itself come without one.
+    const subscription = form.watch((_values, { type }) => saver.markDirty(type === "change"));
     const warn = (event: BeforeUnloadEvent) => {
       if (saver.busy) event.preventDefault();
     };
@@ -225,7 +253,7 @@ export function useAutosave({ form, initialId, initialVersion, initialSavedAt, s
     return () => {
       subscription.unsubscribe();
       window.removeEventListener("beforeunload", warn);
-      saver.cancel();
+      saver.leave();
     };
   }, [form, saver]);
 
