@@ -15,6 +15,8 @@ import { launchBrowser, newContext, signInWithForm } from "./support/browser";
 requireDatabase();
 
 const PHONE = { width: 390, height: 844 };
+// Each test takes a few seconds on an idle machine; the limit allows for a busy shared one.
+const SLOW = { timeout: 120_000 };
 
 const heading = (page: Page) => page.getByTestId("step-heading").textContent();
 
@@ -60,53 +62,59 @@ describe("issue 20: forms that keep, explain and follow the user", () => {
   });
 
   // Item 2: a reload or a click on Dashboard wiped the apparatus form.
-  it("the apparatus form keeps what was typed through a reload and asks before a link or Back leaves it", async () => {
-    const set = await createRoleSet();
-    const context = await newContext(browser);
-    const page = await context.newPage();
-    await signInWithForm(page, set.instructor.email, TEST_PASSWORD);
-    await page.goto("/apparatus/new");
-    // Typed with real key presses: the browser only guards a page the user has interacted with.
-    await page.getByLabel("Name").click();
-    await page.keyboard.type("Belt generator for the outreach evening");
-    await page.getByLabel("Charging voltage of the bank").fill("40 kV");
+  it(
+    "the apparatus form keeps what was typed through a reload and asks before a link or Back leaves it",
+    SLOW,
+    async () => {
+      const set = await createRoleSet();
+      const context = await newContext(browser);
+      context.setDefaultTimeout(45_000);
+      const page = await context.newPage();
+      await signInWithForm(page, set.instructor.email, TEST_PASSWORD);
+      await page.goto("/apparatus/new");
+      // Typed with real key presses: the browser only guards a page the user has interacted with.
+      await page.getByLabel("Name").click();
+      await page.keyboard.type("Belt generator for the outreach evening");
+      await page.getByLabel("Charging voltage of the bank").fill("40 kV");
 
-    let accept = true;
-    const dialogs = answerDialogs(page, () => accept);
-    await page.reload();
-    expect(dialogs.map((d) => d.type)).toContain("beforeunload");
-    await expect.poll(() => page.getByLabel("Name").inputValue()).toBe("Belt generator for the outreach evening");
-    expect(await page.getByLabel("Charging voltage of the bank").inputValue()).toBe("40 kV");
-    expect(await page.getByText("Your unsaved typing is back").isVisible()).toBe(true);
+      let accept = true;
+      const dialogs = answerDialogs(page, () => accept);
+      await page.reload();
+      expect(dialogs.map((d) => d.type)).toContain("beforeunload");
+      await expect.poll(() => page.getByLabel("Name").inputValue()).toBe("Belt generator for the outreach evening");
+      expect(await page.getByLabel("Charging voltage of the bank").inputValue()).toBe("40 kV");
+      expect(await page.getByText("Your unsaved typing is back").isVisible()).toBe(true);
 
-    // A click on Dashboard asks; "stay" keeps the page and the typing.
-    accept = false;
-    await page.getByRole("link", { name: "Dashboard" }).first().click();
-    await expect.poll(() => dialogs.at(-1)?.message).toBe(LEAVE_MESSAGE);
-    expect(new URL(page.url()).pathname).toBe("/apparatus/new");
-    expect(await page.getByLabel("Name").inputValue()).toBe("Belt generator for the outreach evening");
+      // A click on Dashboard asks; "stay" keeps the page and the typing.
+      accept = false;
+      await page.getByRole("link", { name: "Dashboard" }).first().click();
+      await expect.poll(() => dialogs.at(-1)?.message).toBe(LEAVE_MESSAGE);
+      expect(new URL(page.url()).pathname).toBe("/apparatus/new");
+      expect(await page.getByLabel("Name").inputValue()).toBe("Belt generator for the outreach evening");
 
-    // Browser Back asks too; staying keeps the form on screen.
-    const before = dialogs.length;
-    await page.evaluate(() => window.history.back());
-    await expect.poll(() => dialogs.length).toBe(before + 1);
-    expect(dialogs.at(-1)?.message).toBe(LEAVE_MESSAGE);
-    expect(new URL(page.url()).pathname).toBe("/apparatus/new");
-    expect(await page.getByLabel("Name").inputValue()).toBe("Belt generator for the outreach evening");
+      // Browser Back asks too; staying keeps the form on screen.
+      const before = dialogs.length;
+      await page.evaluate(() => window.history.back());
+      await expect.poll(() => dialogs.length).toBe(before + 1);
+      expect(dialogs.at(-1)?.message).toBe(LEAVE_MESSAGE);
+      expect(new URL(page.url()).pathname).toBe("/apparatus/new");
+      expect(await page.getByLabel("Name").inputValue()).toBe("Belt generator for the outreach evening");
 
-    // Leaving anyway and coming back later: the typing is offered back.
-    accept = true;
-    await page.getByRole("link", { name: "Dashboard" }).first().click();
-    await page.waitForURL((url) => url.pathname === "/");
-    await page.goto("/apparatus/new");
-    await expect.poll(() => page.getByLabel("Name").inputValue()).toBe("Belt generator for the outreach evening");
-    await context.close();
-  });
+      // Leaving anyway and coming back later: the typing is offered back.
+      accept = true;
+      await page.getByRole("link", { name: "Dashboard" }).first().click();
+      await page.waitForURL((url) => url.pathname === "/");
+      await page.goto("/apparatus/new");
+      await expect.poll(() => page.getByLabel("Name").inputValue()).toBe("Belt generator for the outreach evening");
+      await context.close();
+    },
+  );
 
   // Item 2: " + matinee" vanished when Dashboard was clicked right after typing it.
-  it("an application edit made just before clicking Dashboard is saved", async () => {
+  it("an application edit made just before clicking Dashboard is saved", SLOW, async () => {
     const set = await createRoleSet();
     const context = await newContext(browser);
+    context.setDefaultTimeout(45_000);
     const page = await context.newPage();
     await signInWithForm(page, set.instructor.email, TEST_PASSWORD);
     await page.goto("/applications/new");
@@ -123,80 +131,82 @@ describe("issue 20: forms that keep, explain and follow the user", () => {
   });
 
   // Item 6: Back left the form; "Use in an application" made an untitled draft; the picker disagreed.
-  it("steps have addresses for Back and Forward, and a draft from a registry record starts at the first edit", async () => {
-    const set = await createRoleSet();
-    const cookie = await signIn(set.instructor.email);
-    const created = await http("/api/apparatus", {
-      method: "POST",
-      cookie,
-      body: {
-        name: "Leyden jar pair",
-        room: "Hall C",
-        notes: "",
-        setup: {
-          sources: [{ label: "C1", kind: "capacitor", capacitance_F: "1 nF", voltage_V: "10 kV" }],
-          gaps: [],
-          bodyResistance_ohm: "",
-          vacuumDevice: false,
+  it(
+    "steps have addresses for Back and Forward, and a draft from a registry record starts at the first edit",
+    SLOW,
+    async () => {
+      const set = await createRoleSet();
+      const cookie = await signIn(set.instructor.email);
+      const created = await http("/api/apparatus", {
+        method: "POST",
+        cookie,
+        body: {
+          name: "Leyden jar pair",
+          room: "Hall C",
+          notes: "",
+          setup: { sources: [{ id: "C1", kind: "capacitor", capacitance_F: 1e-9, voltage_V: 10e3 }] },
         },
-      },
-    });
-    expect(created.status).toBe(201);
-    const apparatusId = (created.json as { apparatus: { id: string } }).apparatus.id;
+      });
+      expect(created.status).toBe(201);
+      const apparatusId = (created.json as { apparatus: { id: string } }).apparatus.id;
 
-    const context = await newContext(browser);
-    const page = await context.newPage();
-    await signInWithForm(page, set.instructor.email, TEST_PASSWORD);
-    await page.goto(`/apparatus/${apparatusId}`);
-    await page.getByRole("link", { name: "Use in an application" }).click();
-    await page.waitForURL((url) => url.pathname === "/applications/new");
-    await expect.poll(() => page.getByTestId("save-status").textContent()).toBe("Not saved yet");
-    // Longer than the autosave pause (0.8 s): still nothing stored, because nothing was typed.
-    await page.waitForTimeout(1_500);
-    expect(await draftsOf(set.instructor.id)).toHaveLength(0);
+      const context = await newContext(browser);
 
-    await page.getByLabel("Title").fill("Jars at the outreach evening");
-    await waitSaved(page);
-    const drafts = await draftsOf(set.instructor.id);
-    expect(drafts.map((d) => d.title)).toEqual(["Jars at the outreach evening"]);
-    await page.getByLabel("Kind of event").selectOption("outreach_event");
-    await page.getByLabel("Room or place").fill("Hall C");
-    await page.getByLabel("Members of the public").check();
-    await page.getByLabel("First day").fill("2027-01-15");
-    await page.getByLabel("Last day").fill("2027-01-15");
-    await page.getByRole("button", { name: "Next: Apparatus" }).click();
-    await expect.poll(() => heading(page)).toBe("Step 2 of 6: Apparatus");
-    expect(new URL(page.url()).search).toBe("?step=2");
+      context.setDefaultTimeout(45_000);
+      const page = await context.newPage();
+      await signInWithForm(page, set.instructor.email, TEST_PASSWORD);
+      await page.goto(`/apparatus/${apparatusId}`);
+      await page.getByRole("link", { name: "Use in an application" }).click();
+      await page.waitForURL((url) => url.pathname === "/applications/new");
+      await expect.poll(() => page.getByTestId("save-status").textContent()).toBe("Not saved yet");
+      // Longer than the autosave pause (0.8 s): still nothing stored, because nothing was typed.
+      await page.waitForTimeout(1_500);
+      expect(await draftsOf(set.instructor.id)).toHaveLength(0);
 
-    // The picker names the record the text under it says is in use.
-    const picker = page.getByLabel("Registered apparatus");
-    expect(await picker.inputValue()).toBe(apparatusId);
-    expect(await picker.locator("option:checked").textContent()).toContain("Leyden jar pair");
-    expect(await page.getByText("Using “Leyden jar pair” as registered").isVisible()).toBe(true);
+      await page.getByLabel("Title").fill("Jars at the outreach evening");
+      await waitSaved(page);
+      const drafts = await draftsOf(set.instructor.id);
+      expect(drafts.map((d) => d.title)).toEqual(["Jars at the outreach evening"]);
+      await page.getByLabel("Kind of event").selectOption("outreach_event");
+      await page.getByLabel("Room or place").fill("Hall C");
+      await page.getByLabel("Members of the public").check();
+      await page.getByLabel("First day").fill("2027-01-15");
+      await page.getByLabel("Last day").fill("2027-01-15");
+      await page.getByRole("button", { name: "Next: Apparatus" }).click();
+      await expect.poll(() => heading(page)).toBe("Step 2 of 6: Apparatus");
+      expect(new URL(page.url()).search).toBe("?step=2");
 
-    await page.getByRole("button", { name: "Next: Hazard result" }).click();
-    await expect.poll(() => heading(page)).toBe("Step 3 of 6: Hazard result");
-    await page.goBack();
-    await expect.poll(() => heading(page)).toBe("Step 2 of 6: Apparatus");
-    await page.goBack();
-    await expect.poll(() => heading(page)).toBe("Step 1 of 6: Event");
-    expect(new URL(page.url()).pathname).toBe(`/applications/${drafts[0].id}/edit`);
-    await page.goForward();
-    await expect.poll(() => heading(page)).toBe("Step 2 of 6: Apparatus");
-    // The fields kept their values through the moves.
-    expect(await page.getByLabel("Apparatus name").inputValue()).toBe("Leyden jar pair");
-    expect(await draftsOf(set.instructor.id)).toHaveLength(1);
-    await context.close();
-  });
+      // The picker names the record the text under it says is in use.
+      const picker = page.getByLabel("Registered apparatus");
+      expect(await picker.inputValue()).toBe(apparatusId);
+      expect(await picker.locator("option:checked").textContent()).toContain("Leyden jar pair");
+      expect(await page.getByText("Using “Leyden jar pair” as registered").isVisible()).toBe(true);
+
+      await page.getByRole("button", { name: "Next: Hazard result" }).click();
+      await expect.poll(() => heading(page)).toBe("Step 3 of 6: Hazard result");
+      await page.goBack();
+      await expect.poll(() => heading(page)).toBe("Step 2 of 6: Apparatus");
+      await page.goBack();
+      await expect.poll(() => heading(page)).toBe("Step 1 of 6: Event");
+      expect(new URL(page.url()).pathname).toBe(`/applications/${drafts[0].id}/edit`);
+      await page.goForward();
+      await expect.poll(() => heading(page)).toBe("Step 2 of 6: Apparatus");
+      // The fields kept their values through the moves.
+      expect(await page.getByLabel("Apparatus name").inputValue()).toBe("Leyden jar pair");
+      expect(await draftsOf(set.instructor.id)).toHaveLength(1);
+      await context.close();
+    },
+  );
 
   // Item 6: wrong numbers got no message until submit; the panel did not say which field.
   for (const [where, viewport] of [
     ["desktop", undefined],
     ["a 390 px phone", PHONE],
   ] as const) {
-    it(`numbers that cannot be right are named beside the field as soon as it is left (${where})`, async () => {
+    it(`numbers that cannot be right are named beside the field as soon as it is left (${where})`, SLOW, async () => {
       const set = await createRoleSet();
       const context = await newContext(browser, viewport);
+      context.setDefaultTimeout(45_000);
       const page = await context.newPage();
       await signInWithForm(page, set.instructor.email, TEST_PASSWORD);
       await page.goto("/apparatus/new");
@@ -232,42 +242,48 @@ describe("issue 20: forms that keep, explain and follow the user", () => {
     ["desktop", undefined],
     ["a 390 px phone", PHONE],
   ] as const) {
-    it(`the live panel says which gap limits the voltage and keeps its figures while a gap is filled in (${where})`, async () => {
-      const set = await createRoleSet();
-      const context = await newContext(browser, viewport);
-      const page = await context.newPage();
-      await signInWithForm(page, set.instructor.email, TEST_PASSWORD);
-      await page.goto("/apparatus/new");
-      await page.getByLabel("Capacitance of one unit").fill("4.7 nF");
-      await page.getByLabel("Charging voltage of the bank").fill("40 kV");
-      const figure = (label: string) =>
-        page.getByTestId("live-figures").locator(`[data-figure="${label}"]`).textContent();
-      await expect.poll(() => figure("Highest voltage")).toBe("40.0 kV");
+    it(
+      `the live panel says which gap limits the voltage and keeps its figures while a gap is filled in (${where})`,
+      SLOW,
+      async () => {
+        const set = await createRoleSet();
+        const context = await newContext(browser, viewport);
+        context.setDefaultTimeout(45_000);
+        const page = await context.newPage();
+        await signInWithForm(page, set.instructor.email, TEST_PASSWORD);
+        await page.goto("/apparatus/new");
+        await page.getByLabel("Capacitance of one unit").fill("4.7 nF");
+        await page.getByLabel("Charging voltage of the bank").fill("40 kV");
+        const figure = (label: string) =>
+          page.getByTestId("live-figures").locator(`[data-figure="${label}"]`).textContent();
+        await expect.poll(() => figure("Highest voltage")).toBe("40.0 kV");
 
-      await page.getByRole("button", { name: "Add spark gap" }).click();
-      // Half-filled gap: the figures stay (without the gap), and the missing fields are named.
-      await page.getByLabel("Sphere diameter").fill("50 mm");
-      expect(await figure("Highest voltage")).toBe("40.0 kV");
-      expect(await page.getByTestId("live-omitted").textContent()).toContain("without spark gap 1 (G1)");
-      expect(await page.getByTestId("live-problems").textContent()).toContain("Spark gap 1 (G1): Gap spacing");
+        await page.getByRole("button", { name: "Add spark gap" }).click();
+        // Half-filled gap: the figures stay (without the gap), and the missing fields are named.
+        await page.getByLabel("Sphere diameter").fill("50 mm");
+        expect(await figure("Highest voltage")).toBe("40.0 kV");
+        expect(await page.getByTestId("live-omitted").textContent()).toContain("without spark gap 1 (G1)");
+        expect(await page.getByTestId("live-problems").textContent()).toContain("Spark gap 1 (G1): Gap spacing");
 
-      await page.getByLabel("Gap spacing").fill("9.4 mm");
-      const limit = page.getByTestId("live-gap-limit");
-      await expect.poll(() => limit.isVisible()).toBe(true);
-      const text = (await limit.textContent()) ?? "";
-      expect(text).toMatch(/^Limited by gap G1 to [\d.]+ kV: the source is set to 40\.0 kV/);
-      // IEC 60052 sphere-gap table, 5 cm spheres: 30 kV peak at 0.94 cm spacing, ±3 % (hazard-references §4c).
-      const ceiling = volts(text.slice(text.indexOf(" to ") + 4));
-      expect(Math.abs(ceiling - 30_000) / 30_000).toBeLessThanOrEqual(0.03);
-      // The figure above is the same number, so the panel and its explanation agree.
-      expect(volts((await figure("Highest voltage")) ?? "")).toBe(ceiling);
-      await context.close();
-    });
+        await page.getByLabel("Gap spacing").fill("9.4 mm");
+        const limit = page.getByTestId("live-gap-limit");
+        await expect.poll(() => limit.isVisible()).toBe(true);
+        const text = (await limit.textContent()) ?? "";
+        expect(text).toMatch(/^Limited by gap G1 to [\d.]+ kV: the source is set to 40\.0 kV/);
+        // IEC 60052 sphere-gap table, 5 cm spheres: 30 kV peak at 0.94 cm spacing, ±3 % (hazard-references §4c).
+        const ceiling = volts(text.slice(text.indexOf(" to ") + 4));
+        expect(Math.abs(ceiling - 30_000) / 30_000).toBeLessThanOrEqual(0.03);
+        // The figure above is the same number, so the panel and its explanation agree.
+        expect(volts((await figure("Highest voltage")) ?? "")).toBe(ceiling);
+        await context.close();
+      },
+    );
   }
 
-  it("the controls step says the limited approach distance itself", async () => {
+  it("the controls step says the limited approach distance itself", SLOW, async () => {
     const set = await createRoleSet();
     const context = await newContext(browser);
+    context.setDefaultTimeout(45_000);
     const page = await context.newPage();
     await signInWithForm(page, set.instructor.email, TEST_PASSWORD);
     const cookie = await signIn(set.instructor.email);
@@ -301,77 +317,84 @@ describe("issue 20: forms that keep, explain and follow the user", () => {
   });
 
   // Item 7: a revision opened on step 6; "about step 2" was no link; the old comment stayed; no replies.
-  it("a returned application opens where its comment points, takes a reply, and shows the comment as history after resubmitting", async () => {
-    const team = await createTeam();
-    const { application } = await createSubmittedApplication({
-      applicant: team.instructor,
-      tier: 2,
-      title: "Belt generator evening",
-      setup: {
-        sources: [{ id: "C1", kind: "capacitor", capacitance_F: 4.7e-9, voltage_V: 40e3, bleeder_ohm: 100e6 }],
-        gaps: [{ sphereDiameter_m: 0.05, spacing_m: 0.0094 }],
-      },
-    });
+  it(
+    "a returned application opens where its comment points, takes a reply, and shows the comment as history after resubmitting",
+    SLOW,
+    async () => {
+      const team = await createTeam();
+      const { application } = await createSubmittedApplication({
+        applicant: team.instructor,
+        tier: 2,
+        title: "Belt generator evening",
+        setup: {
+          sources: [{ id: "C1", kind: "capacitor", capacitance_F: 4.7e-9, voltage_V: 40e3, bleeder_ohm: 100e6 }],
+          gaps: [{ sphereDiameter_m: 0.05, spacing_m: 0.0094 }],
+        },
+      });
 
-    // The reviewer's page offers the gap as a place to pin the comment.
-    const reviewerContext = await newContext(browser);
-    const reviewer = await reviewerContext.newPage();
-    await signInWithForm(reviewer, team.reviewer.email, TEST_PASSWORD);
-    await reviewer.goto(`/applications/${application.id}`);
-    await reviewer.getByLabel(/Return for changes/).check();
-    const options = await reviewer.getByLabel("Pin the comment to").locator("option").allTextContents();
-    expect(options).toContain("Spark gap 1 (G1)");
-    await decide(asActor(team.reviewer), application.id, {
-      kind: "return",
-      expectedVersion: application.version,
-      comment: "Check the gap spacing against the sphere size.",
-      pinnedTo: "apparatus.setup.gaps[0]",
-    });
+      // The reviewer's page offers the gap as a place to pin the comment.
+      const reviewerContext = await newContext(browser);
+      reviewerContext.setDefaultTimeout(45_000);
+      const reviewer = await reviewerContext.newPage();
+      await signInWithForm(reviewer, team.reviewer.email, TEST_PASSWORD);
+      await reviewer.goto(`/applications/${application.id}`);
+      await reviewer.getByLabel(/Return for changes/).check();
+      const options = await reviewer.getByLabel("Pin the comment to").locator("option").allTextContents();
+      expect(options).toContain("Spark gap 1 (G1)");
+      await decide(asActor(team.reviewer), application.id, {
+        kind: "return",
+        expectedVersion: application.version,
+        comment: "Check the gap spacing against the sphere size.",
+        pinnedTo: "apparatus.setup.gaps[0]",
+      });
 
-    const context = await newContext(browser);
-    const page = await context.newPage();
-    await signInWithForm(page, team.instructor.email, TEST_PASSWORD);
-    await page.goto(`/applications/${application.id}/edit`);
-    await expect.poll(() => heading(page)).toBe("Step 2 of 6: Apparatus");
-    const comment = page.getByTestId("return-comment");
-    expect(await comment.textContent()).toContain("Check the gap spacing against the sphere size.");
-    // From another step, the pin is a link back to the step it is about.
-    await page.getByRole("button", { name: /Event \(go back to this step\)/ }).click();
-    await expect.poll(() => heading(page)).toBe("Step 1 of 6: Event");
-    await comment.getByRole("link", { name: "Spark gap 1 (G1)" }).click();
-    await expect.poll(() => heading(page)).toBe("Step 2 of 6: Apparatus");
+      const context = await newContext(browser);
 
-    await comment.getByRole("button", { name: "Reply to this comment" }).click();
-    await page.getByLabel("Your reply to this comment").fill("Measured again: 9.4 mm at 50 mm spheres.");
-    await page.getByRole("button", { name: "Send reply" }).click();
-    await expect.poll(() => page.getByTestId("comment-reply").textContent()).toContain("Measured again: 9.4 mm");
-    const [decision] = await getDb()
-      .select({ id: decisions.id })
-      .from(decisions)
-      .where(and(eq(decisions.applicationId, application.id), eq(decisions.kind, "return")));
-    const replies = await getDb().select().from(commentReplies).where(eq(commentReplies.decisionId, decision.id));
-    expect(replies.map((r) => r.body)).toEqual(["Measured again: 9.4 mm at 50 mm spheres."]);
-    const audited = await getDb()
-      .select()
-      .from(auditEvents)
-      .where(and(eq(auditEvents.entityId, application.id), eq(auditEvents.action, "application.comment_replied")));
-    expect(audited).toHaveLength(1);
+      context.setDefaultTimeout(45_000);
+      const page = await context.newPage();
+      await signInWithForm(page, team.instructor.email, TEST_PASSWORD);
+      await page.goto(`/applications/${application.id}/edit`);
+      await expect.poll(() => heading(page)).toBe("Step 2 of 6: Apparatus");
+      const comment = page.getByTestId("return-comment");
+      expect(await comment.textContent()).toContain("Check the gap spacing against the sphere size.");
+      // From another step, the pin is a link back to the step it is about.
+      await page.getByRole("button", { name: /Event \(go back to this step\)/ }).click();
+      await expect.poll(() => heading(page)).toBe("Step 1 of 6: Event");
+      await comment.getByRole("link", { name: "Spark gap 1 (G1)" }).click();
+      await expect.poll(() => heading(page)).toBe("Step 2 of 6: Apparatus");
 
-    // Resubmitted: the return is history, not a current instruction.
-    await page.goto(`/applications/${application.id}/edit?step=6`);
-    await page.getByLabel(/I confirm that this application describes the set-up/).check();
-    await page.getByRole("button", { name: "Submit for review" }).click();
-    await expect.poll(() => page.getByTestId("submitted").isVisible(), { timeout: 15_000 }).toBe(true);
-    expect(await page.getByText("Returned for changes").count()).toBe(0);
-    expect(await page.getByTestId("comment-history").textContent()).toContain(
-      "Check the gap spacing against the sphere size.",
-    );
+      await comment.getByRole("button", { name: "Reply to this comment" }).click();
+      await page.getByLabel("Your reply to this comment").fill("Measured again: 9.4 mm at 50 mm spheres.");
+      await page.getByRole("button", { name: "Send reply" }).click();
+      await expect.poll(() => page.getByTestId("comment-reply").textContent()).toContain("Measured again: 9.4 mm");
+      const [decision] = await getDb()
+        .select({ id: decisions.id })
+        .from(decisions)
+        .where(and(eq(decisions.applicationId, application.id), eq(decisions.kind, "return")));
+      const replies = await getDb().select().from(commentReplies).where(eq(commentReplies.decisionId, decision.id));
+      expect(replies.map((r) => r.body)).toEqual(["Measured again: 9.4 mm at 50 mm spheres."]);
+      const audited = await getDb()
+        .select()
+        .from(auditEvents)
+        .where(and(eq(auditEvents.entityId, application.id), eq(auditEvents.action, "application.comment_replied")));
+      expect(audited).toHaveLength(1);
 
-    // The reviewer reads the reply beside the comment and in the timeline.
-    await reviewer.reload();
-    expect(await reviewer.getByTestId("comment-reply").textContent()).toContain("Measured again: 9.4 mm");
-    expect(await reviewer.getByText("Replied to a return comment").isVisible()).toBe(true);
-    await reviewerContext.close();
-    await context.close();
-  });
+      // Resubmitted: the return is history, not a current instruction.
+      await page.goto(`/applications/${application.id}/edit?step=6`);
+      await page.getByLabel(/I confirm that this application describes the set-up/).check();
+      await page.getByRole("button", { name: "Submit for review" }).click();
+      await expect.poll(() => page.getByTestId("submitted").isVisible(), { timeout: 15_000 }).toBe(true);
+      expect(await page.getByText("Returned for changes").count()).toBe(0);
+      expect(await page.getByTestId("comment-history").textContent()).toContain(
+        "Check the gap spacing against the sphere size.",
+      );
+
+      // The reviewer reads the reply beside the comment and in the timeline.
+      await reviewer.reload();
+      expect(await reviewer.getByTestId("comment-reply").textContent()).toContain("Measured again: 9.4 mm");
+      expect(await reviewer.getByText("Replied to a return comment").isVisible()).toBe(true);
+      await reviewerContext.close();
+      await context.close();
+    },
+  );
 });
