@@ -5,7 +5,7 @@ import type { Browser, Dialog, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { applications, auditEvents, commentReplies, decisions } from "@/db/schema";
-import { decide } from "@/lib/review/actions";
+import { decide } from "@/lib/review/decide";
 import { LEAVE_MESSAGE } from "@/app/_components/forms/use-leave-guard";
 import { asActor, createSubmittedApplication, createTeam } from "../review/support";
 import { createRoleSet, requireDatabase, TEST_PASSWORD } from "../support/db";

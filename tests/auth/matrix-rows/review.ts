@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import { getDb } from "@/db";
 import { decisions, permits, users } from "@/db/schema";
-import { decide } from "@/lib/review/actions";
+import { decide } from "@/lib/review/decide";
 import { asActor, createSubmittedApplication } from "../../review/support";
 import { createUser, TEST_PASSWORD } from "../../support/db";
 import {
