@@ -6,6 +6,18 @@ export async function register() {
   if (process.env.NEXT_RUNTIME !== "nodejs") return;
   const { env } = await import("@/lib/env");
   const config = env();
+  const { peerHeaderInstalled } = await import("@/lib/http/client-ip");
+  if (
+    config.NODE_ENV === "production" &&
+    process.env.NEXT_PHASE !== "phase-production-build" &&
+    !peerHeaderInstalled()
+  ) {
+    // Without it a client's own X-Forwarded-For would pass for its address (lib/http/client-ip.ts).
+    throw new Error(
+      "Start the web server with the peer-address preload: `npm run serve` " +
+        "(node --import ./scripts/lib/peer-address.mjs node_modules/next/dist/bin/next start).",
+    );
+  }
   if (process.env.NEXT_PHASE === "phase-production-build") return;
   // Behind a load balancer (`npm run cluster`, docs/deploy.md) the server drains before it stops:
   // readiness answers 503 first, requests in flight finish, then the worker and the pool close.

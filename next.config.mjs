@@ -7,9 +7,10 @@ const securityHeaders = [
   { key: "Cross-Origin-Opener-Policy", value: "same-origin" },
   { key: "X-Frame-Options", value: "DENY" },
   { key: "Permissions-Policy", value: "camera=(), microphone=(), geolocation=()" },
-  ...(process.env.NODE_ENV === "production" && process.env.APP_URL?.startsWith("https://")
-    ? [{ key: "Strict-Transport-Security", value: "max-age=31536000; includeSubDomains" }]
-    : []),
+  // Always sent, whatever the build's environment: browsers ignore it over plain http (RFC 6797 §8.1),
+  // so it costs the local demo nothing, and a deployment behind https can never ship without it.
+  // One year, in seconds.
+  { key: "Strict-Transport-Security", value: "max-age=31536000; includeSubDomains" },
 ];
 
 const nextConfig = {
@@ -19,6 +20,13 @@ const nextConfig = {
   // `npm test` and CI type-check the whole project with `tsc --noEmit` as a stage of its own; the
   // build repeating it doubled the slowest step on a 2-core machine.
   typescript: { ignoreBuildErrors: true },
+  experimental: {
+    // A request that passes through proxy.ts has its body copied for the proxy, up to this size
+    // (Next's default is 10 MiB, twice over: the copy and the replay). No route that proxy.ts sees
+    // takes more than 512 KiB (draft saves); uploads and sign-in skip the proxy. Bytes: 1 MiB.
+    // Each route still cuts its own body at its own limit (lib/http/body.ts).
+    proxyClientMaxBodySize: 1024 * 1024,
+  },
   reactStrictMode: true,
   async headers() {
     return [{ source: "/:path*", headers: securityHeaders }];

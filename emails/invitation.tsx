@@ -12,7 +12,7 @@ export const invitationEmail: EmailBuilder<"invitation"> = (data, ctx) => ({
       type: "text",
       text: `${data.invitedBy} invited you to Benchclear, ${ctx.institutionName}'s desk for high-voltage demonstration and bench permits. Open the link below and choose a password to activate your account.`,
     },
-    { type: "action", label: "Accept the invitation", url: data.url },
+    { type: "action", label: "Accept the invitation", url: data.url ?? "" },
     {
       type: "text",
       text: `The link works once and expires on ${formatInstant(data.expiresAt, ctx.timeZone)}. If it has expired, ask an admin for a new one.`,

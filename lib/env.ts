@@ -10,6 +10,21 @@ const bool = z
 
 const port = z.coerce.number().int().min(1).max(65535);
 
+/** Loopback names and addresses: this machine only (RFC 6761 §6.3, RFC 1122 127/8, RFC 4291 ::1). */
+export function isLoopbackHost(host: string): boolean {
+  const h = host
+    .trim()
+    .toLowerCase()
+    .replace(/^\[|\]$/g, "");
+  return (
+    h === "localhost" ||
+    h.endsWith(".localhost") ||
+    /^127(\.\d{1,3}){3}$/.test(h) ||
+    h === "::1" ||
+    /^::ffff:127(\.\d{1,3}){3}$/.test(h)
+  );
+}
+
 export const envSchema = z
   .object({
     NODE_ENV: z.enum(["development", "test", "production"]).default("development"),
@@ -39,6 +54,12 @@ export const envSchema = z
     // server keeps serving while readiness says 503, then how long it waits for requests in flight.
     SHUTDOWN_DRAIN_MS: z.coerce.number().int().min(0).max(120_000).default(2_000),
     SHUTDOWN_TIMEOUT_MS: z.coerce.number().int().min(1_000).max(300_000).default(25_000),
+    // How many reverse proxies in front of the app to believe about the client's address (their
+    // X-Forwarded-For entries, read from the right). 0: the TCP peer is the client (lib/http/client-ip.ts).
+    TRUSTED_PROXY_HOPS: z.coerce.number().int().min(0).max(10).default(0),
+    // The local demo on this machine (`npm start`, `npm test`): lets the demo accounts sign in and the
+    // local inbox take mail while the production build runs. Only with a loopback APP_URL.
+    BENCHCLEAR_LOCAL_DEMO: bool,
     LOG_INVITATION_LINKS: bool,
     // Where the local inbox keeps messages (read by /dev/mail).
     LOCAL_INBOX_DIR: z.string().min(1).default(".data/mail"),
@@ -47,8 +68,23 @@ export const envSchema = z
     if (value.STORAGE_DRIVER === "s3" && !value.S3_BUCKET) {
       ctx.addIssue({ code: "custom", path: ["S3_BUCKET"], message: "is required when STORAGE_DRIVER=s3" });
     }
-    if (value.MAIL_TRANSPORT === "smtp" && value.NODE_ENV === "production" && value.SMTP_HOST === "127.0.0.1") {
+    const production = value.NODE_ENV === "production";
+    if (value.MAIL_TRANSPORT === "smtp" && production && value.SMTP_HOST === "127.0.0.1") {
       ctx.addIssue({ code: "custom", path: ["SMTP_HOST"], message: "must name the SMTP relay in production" });
+    }
+    if (value.BENCHCLEAR_LOCAL_DEMO && !isLoopbackHost(new URL(value.APP_URL).hostname)) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["BENCHCLEAR_LOCAL_DEMO"],
+        message: "is only for the local demo: APP_URL must then be on this machine (localhost, 127.0.0.1, ::1)",
+      });
+    }
+    if (production && value.MAIL_TRANSPORT === "local-inbox" && !value.BENCHCLEAR_LOCAL_DEMO) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["MAIL_TRANSPORT"],
+        message: "must be smtp in production (the local inbox keeps mail on this machine and shows it at /dev/mail)",
+      });
     }
   });
 

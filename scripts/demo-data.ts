@@ -1,14 +1,17 @@
 // Demo data for the fictional Aldermere Institute of Technology: two departments, one user per role
 // (the demo password is printed in the README), the institution's settings, and the demo story
 // (scripts/demo-story.ts: apparatus of every tier, applications in every state, permits). Idempotent:
-// re-running adds only what is missing. Refuses NODE_ENV=production unless SEED_ALLOW_PRODUCTION=1.
+// re-running adds only what is missing. Refuses NODE_ENV=production, and any database not on this
+// machine, unless SEED_ALLOW_PRODUCTION=1 (seedRefusal below).
 import "@/lib/jobs/standalone";
+import { DEMO_PASSWORD } from "@/lib/auth/demo";
 import { hashPassword } from "@/lib/auth/password";
+import { isLoopbackHost } from "@/lib/env";
 import { loadLocalEnv } from "@/scripts/lib/load-env";
 import { closeDb, getDb } from "@/db";
 import { departments, institutionSettings, users, type Role } from "@/db/schema";
 
-export const DEMO_PASSWORD = "benchclear-demo-2026";
+export { DEMO_PASSWORD };
 export const INSTITUTION_NAME = "Aldermere Institute of Technology";
 
 export const DEMO_DEPARTMENTS = [
@@ -22,6 +25,25 @@ export const DEMO_USERS: { email: string; name: string; roles: Role[]; departmen
   { email: "officer@benchclear.test", name: "Dana Whitlock", roles: ["safety_officer"], department: "OUTR" },
   { email: "admin@benchclear.test", name: "Sam Ferreira", roles: ["admin"], department: "OUTR" },
 ];
+
+/**
+ * Why the demo data (accounts with a published password) must not go into this database, or null.
+ * `npm start` runs this script with NODE_ENV=development whatever it points at, so the database's
+ * host is checked too: only a cluster on this machine (loopback or a local socket) gets demo data.
+ */
+export function seedRefusal(source: Record<string, string | undefined>): string | null {
+  if (source.SEED_ALLOW_PRODUCTION === "1") return null;
+  if (source.NODE_ENV === "production") return "NODE_ENV=production";
+  let host = "";
+  try {
+    const url = new URL(source.DATABASE_URL ?? "");
+    host = decodeURIComponent(url.hostname) || url.searchParams.get("host") || "";
+  } catch {
+    return "DATABASE_URL is not a URL";
+  }
+  if (host && !host.startsWith("/") && !isLoopbackHost(host)) return `the database is not on this machine (${host})`;
+  return null;
+}
 
 export async function seed(): Promise<void> {
   const db = getDb();
@@ -74,8 +96,9 @@ export async function seed(): Promise<void> {
 
 if (import.meta.url === `file://${process.argv[1]}`) {
   loadLocalEnv();
-  if (process.env.NODE_ENV === "production" && process.env.SEED_ALLOW_PRODUCTION !== "1") {
-    console.error("Refusing to seed demo data with NODE_ENV=production (set SEED_ALLOW_PRODUCTION=1 to insist).");
+  const refusal = seedRefusal(process.env);
+  if (refusal) {
+    console.error(`Refusing to add demo data: ${refusal} (set SEED_ALLOW_PRODUCTION=1 to insist).`);
     process.exit(1);
   }
   seed()

@@ -17,6 +17,7 @@ import {
   step,
   stopAllChildren,
 } from "./lib/services.mjs";
+import { nextCommand } from "./lib/next-server.mjs";
 
 const PORT = Number(process.env.PORT ?? 3000);
 const MAIL_PORT = Number(process.env.SMTP_PORT ?? 1025);
@@ -45,7 +46,7 @@ try {
     env: { ...env, INBOX_PORT: String(MAIL_PORT) },
   });
   step(`next dev on http://localhost:${PORT}`);
-  const server = startChild("dev server", bin("next"), ["dev", "-p", String(PORT)], {
+  const server = startChild("dev server", ...nextCommand(["dev", "-p", String(PORT)]), {
     env: { ...env, WORKER_IN_APP: local.WORKER_IN_APP ?? "true" },
   });
   const stop = async () => {

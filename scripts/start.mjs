@@ -24,6 +24,7 @@ import {
 import fs from "node:fs";
 import path from "node:path";
 import { dataDir } from "./lib/services.mjs";
+import { nextCommand } from "./lib/next-server.mjs";
 
 const PORT = Number(process.env.PORT ?? 3000);
 const MAIL_PORT = Number(process.env.SMTP_PORT ?? 1025);
@@ -59,6 +60,9 @@ async function main() {
     AUTH_TRUST_HOST: "true",
     SMTP_PORT: String(MAIL_PORT),
     LOG_INVITATION_LINKS: local.LOG_INVITATION_LINKS ?? "1",
+    // The production build on this machine with demo accounts and the local inbox: allowed only
+    // because APP_URL is loopback (lib/env.ts); a deployment never sets it.
+    BENCHCLEAR_LOCAL_DEMO: local.BENCHCLEAR_LOCAL_DEMO ?? "1",
     NEXT_TELEMETRY_DISABLED: "1",
   };
 
@@ -79,7 +83,7 @@ async function main() {
   inbox.on("exit", (code) => !shuttingDown && (console.error(`local inbox exited (${code})`), shutdown(1)));
 
   step(`Starting Benchclear on http://localhost:${PORT}`);
-  const server = startChild("web server", bin("next"), ["start", "-p", String(PORT), "-H", "127.0.0.1"], {
+  const server = startChild("web server", ...nextCommand(["start", "-p", String(PORT), "-H", "127.0.0.1"]), {
     env: { ...appEnv, NODE_ENV: "production", WORKER_IN_APP: local.WORKER_IN_APP ?? "true" },
   });
   fs.writeFileSync(pidFile, String(server.pid));

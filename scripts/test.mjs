@@ -27,6 +27,7 @@ import {
   warn,
 } from "./lib/services.mjs";
 import { spawnSync } from "node:child_process";
+import { nextCommand } from "./lib/next-server.mjs";
 
 const TEST_PORT = Number(process.env.TEST_PORT ?? 3210);
 const TEST_MAIL_PORT = Number(process.env.TEST_SMTP_PORT ?? 2526);
@@ -101,6 +102,11 @@ async function main() {
     LOCAL_INBOX_DIR: path.join(dataDir, `mail-${TEST_DB}`),
     STORAGE_DIR: path.join(dataDir, `uploads-${TEST_DB}`),
     NEXT_TELEMETRY_DISABLED: "1",
+    // Demo accounts and the local inbox under the production build, on this machine only.
+    BENCHCLEAR_LOCAL_DEMO: "1",
+    // The tests stand in for one reverse proxy: each request names its client in X-Forwarded-For
+    // (tests/support/http.ts), so tests do not share one address's rate limits.
+    TRUSTED_PROXY_HOPS: "1",
   };
   fs.rmSync(testEnv.LOCAL_INBOX_DIR, { recursive: true, force: true });
   fs.rmSync(testEnv.STORAGE_DIR, { recursive: true, force: true });
@@ -121,7 +127,7 @@ async function main() {
     env: { ...testEnv, INBOX_PORT: String(TEST_MAIL_PORT) },
   });
   step(`Starting the production build on ${baseUrl}`);
-  const server = startChild("web server", bin("next"), ["start", "-p", String(TEST_PORT), "-H", "127.0.0.1"], {
+  const server = startChild("web server", ...nextCommand(["start", "-p", String(TEST_PORT), "-H", "127.0.0.1"]), {
     env: { ...testEnv, NODE_ENV: "production", NEXT_DIST_DIR: distDir },
     stdio: ["ignore", fs.openSync(path.join(dataDir, `test-server-${TEST_DB}.log`), "w"), "inherit"],
   });
@@ -133,8 +139,16 @@ async function main() {
     "Vitest",
     bin("vitest"),
     ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${report}`, ...vitestArgs],
-    // The cluster tests start more servers of the same build.
-    { ...testEnv, TEST_BASE_URL: baseUrl, TEST_DIST_DIR: distDir, TEST_PORT: String(TEST_PORT), TEST_DB_NAME: TEST_DB },
+    // The cluster tests start more servers of the same build; the server's pid: tests read its
+    // resident memory from /proc/<pid>/status.
+    {
+      ...testEnv,
+      TEST_BASE_URL: baseUrl,
+      TEST_DIST_DIR: distDir,
+      TEST_PORT: String(TEST_PORT),
+      TEST_DB_NAME: TEST_DB,
+      TEST_SERVER_PID: String(server.pid),
+    },
   );
 
   await stopAllChildren();

@@ -3,11 +3,15 @@ import type { z } from "zod";
 import { env } from "@/lib/env";
 import { can, getCurrentUser, type CurrentUser } from "@/lib/auth/guards";
 import type { Permission } from "@/lib/auth/permissions";
+import { DEFAULT_BODY_LIMIT_BYTES, discardBody, readBodyBytes, readJsonBody } from "./body";
 import { AppError, errorBody, forbidden, fromZodError, unauthenticated } from "./errors";
 
 // Every route handler is built with route(): one order for all of them — same-origin and content-type
 // checks for mutations, authenticate (401), permission (403), parse query and body with zod (422
-// naming the field), then the handler, which does record-level checks. Errors become JSON answers;
+// naming the field), then the handler, which does record-level checks. Every body is read through
+// lib/http/body.ts, counted as it streams and cut at the route's limit (413): a JSON body when the
+// route declares `body`, raw bytes when it declares `rawBody` (uploads), and otherwise a small
+// allowance read and dropped. Errors become JSON answers;
 // unexpected errors are logged and answered with a bare 500.
 
 type Access = "public" | "user" | Permission;
@@ -16,6 +20,8 @@ type Context<B, Q, A extends Access> = {
   request: Request;
   user: A extends "public" ? CurrentUser | null : CurrentUser;
   body: B;
+  /** The raw body, when the route declared `rawBody`. */
+  rawBody: Buffer;
   query: Q;
   params: Record<string, string>;
 };
@@ -26,6 +32,8 @@ type Options<B, Q, A extends Access> = {
   query?: z.ZodType<Q>;
   /** Raw body limit in bytes for JSON bodies (default 256 KiB). */
   maxBodyBytes?: number;
+  /** The route reads the body itself (uploads): bytes, at most this many, checked after access. */
+  rawBody?: { maxBytes: number; contentType: RegExp; typeError: string; tooLarge?: () => AppError };
 };
 
 const MUTATING = new Set(["POST", "PUT", "PATCH", "DELETE"]);
@@ -43,21 +51,6 @@ export function assertSameOrigin(request: Request): void {
     allowed.add(`https://${host}`);
   }
   if (!allowed.has(origin)) throw new AppError("forbidden", "Cross-site request refused.");
-}
-
-async function readJson(request: Request, limit: number): Promise<unknown> {
-  const type = request.headers.get("content-type") ?? "";
-  if (!/^application\/json\b/i.test(type)) {
-    throw new AppError("unsupported_media_type", "Send the body as JSON (Content-Type: application/json).");
-  }
-  const text = await request.text();
-  if (Buffer.byteLength(text) > limit)
-    throw new AppError("payload_too_large", `The body is larger than ${limit} bytes.`);
-  try {
-    return text === "" ? undefined : JSON.parse(text);
-  } catch {
-    throw new AppError("bad_request", "The body is not valid JSON.");
-  }
 }
 
 export function errorResponse(error: unknown): Response {
@@ -99,14 +92,29 @@ export function route<B = undefined, Q = undefined, A extends Access = Access>(
       }
 
       let body = undefined as B;
+      let rawBody: Buffer = Buffer.alloc(0);
       if (options.body) {
-        const raw = await readJson(request, options.maxBodyBytes ?? 256 * 1024);
+        const raw = await readJsonBody(request, options.maxBodyBytes ?? DEFAULT_BODY_LIMIT_BYTES);
         const parsed = options.body.safeParse(raw);
         if (!parsed.success) throw fromZodError(parsed.error);
         body = parsed.data;
+      } else if (options.rawBody) {
+        if (!options.rawBody.contentType.test(request.headers.get("content-type") ?? "")) {
+          throw new AppError("unsupported_media_type", options.rawBody.typeError);
+        }
+        rawBody = await readBodyBytes(request, options.rawBody.maxBytes, options.rawBody.tooLarge);
+      } else if (request.body) {
+        await discardBody(request);
       }
 
-      const result = await handler({ request, user: user as Context<B, Q, A>["user"], body, query, params });
+      const result = await handler({
+        request,
+        user: user as Context<B, Q, A>["user"],
+        body,
+        rawBody,
+        query,
+        params,
+      });
       return result instanceof Response ? result : Response.json(result);
     } catch (error) {
       return errorResponse(error);

@@ -162,6 +162,13 @@ async function deliverNext(settings: DeliverySettings): Promise<Settled | null> 
     }
     return { id: row.id, outcome: await recordFailure(db, row, error, now, maxAttempts, "sent") };
   }
+  // The server has it: a link with a raw token must not stay at rest in the outbox. Rows queued the
+  // current way carry no link at all (lib/mail/invitations.ts); this drops one queued with a `url`.
+  // Only now, not at the commit above: a refusal after the final dot puts the row back in the queue,
+  // and the retry must still be able to render the link.
+  if (row.kind === "invitation" && "url" in (row.data ?? {})) {
+    await db.execute(sql`UPDATE mail_outbox SET data = data - 'url' WHERE id = ${row.id} AND kind = 'invitation'`);
+  }
   await observer?.("accepted", row);
   return { id: row.id, outcome: "sent" };
 }

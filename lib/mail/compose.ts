@@ -5,6 +5,7 @@ import { renderEmail, type RecipientRelation } from "@/emails";
 import type { OutboxMail } from "@/db/schema";
 import { buildCalendar, permitEvents } from "@/lib/calendar/ics";
 import { env } from "@/lib/env";
+import { invitationToken, invitationUrl } from "@/lib/users/invitation-token";
 import { headerText, isPlainAddress, outboxMessageId, senderDomain } from "./headers";
 import type { MailMessage } from "./outbox";
 import { permitPdfAttachment } from "./permit-pdf";
@@ -64,6 +65,11 @@ export async function composeOutboxMail(row: OutboxMail): Promise<ComposedMail> 
       room: message.data.room ?? facts.room ?? undefined,
       conditions: message.data.conditions ?? facts.conditions,
     };
+  }
+
+  if (message.kind === "invitation" && !message.data.url) {
+    if (!message.data.invitationId) throw new UnsendableMailError("invitation mail without its invitation");
+    message.data = { ...message.data, url: invitationUrl(invitationToken(message.data.invitationId)) };
   }
 
   if (message.kind === "application_submitted" && !message.data.departmentName) {

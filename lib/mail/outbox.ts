@@ -9,7 +9,13 @@ import { headerText } from "./headers";
 // per recipient (mail_outbox.dedupe_key is UNIQUE): queuing it twice is a no-op.
 
 export type MailMessage =
-  | { kind: "invitation"; data: { name: string; invitedBy: string; url: string; expiresAt: string } }
+  | {
+      kind: "invitation";
+      // Queued with the invitation's id; the link (`url`) is rebuilt from it at render time
+      // (lib/mail/compose.ts) and never stored. A row queued with a ready `url` has it dropped once
+      // the message is accepted (lib/mail/actions.ts).
+      data: { name: string; invitedBy: string; invitationId?: string; url?: string; expiresAt: string };
+    }
   | {
       kind: "application_submitted";
       data: { applicationId: string; title: string; applicantName: string; tier: number; departmentName?: string };

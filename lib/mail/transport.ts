@@ -1,7 +1,7 @@
 import "server-only";
 import { Readable } from "node:stream";
 import SMTPConnection from "nodemailer/lib/smtp-connection";
-import { env } from "@/lib/env";
+import { env, isLoopbackHost, type Env } from "@/lib/env";
 
 // One SMTP delivery in three observable phases, so the outbox can decide when a message counts as
 // sent (lib/mail/actions.ts explains why):
@@ -19,8 +19,10 @@ export type SmtpSettings = {
   secure: boolean;
   user?: string;
   password?: string;
-  /** The inbox speaks plain SMTP on 127.0.0.1; a relay gets STARTTLS when it offers it. */
+  /** The inbox speaks plain SMTP on 127.0.0.1: no STARTTLS. */
   ignoreTLS: boolean;
+  /** Refuse to send unless the connection is encrypted (STARTTLS must succeed). */
+  requireTLS: boolean;
   /** Milliseconds: connect, greeting, and inactivity on the socket. */
   connectionTimeout: number;
   greetingTimeout: number;
@@ -28,8 +30,20 @@ export type SmtpSettings = {
 };
 
 export function smtpSettingsFromEnv(overrides: Partial<SmtpSettings> = {}): SmtpSettings {
-  const e = env();
+  return smtpSettingsFor(env(), overrides);
+}
+
+/**
+ * A relay is reached over TLS: implicit TLS with SMTP_SECURE=true (port 465), else STARTTLS, and a
+ * relay that does not offer STARTTLS is refused (nothing — password, invitation links — goes over the
+ * network in clear). Only a relay on this machine (a loopback host, explicitly) may speak plain SMTP.
+ */
+export function smtpSettingsFor(
+  e: Pick<Env, "MAIL_TRANSPORT" | "SMTP_HOST" | "SMTP_PORT" | "SMTP_SECURE" | "SMTP_USER" | "SMTP_PASSWORD">,
+  overrides: Partial<SmtpSettings> = {},
+): SmtpSettings {
   const inbox = e.MAIL_TRANSPORT === "local-inbox";
+  const local = isLoopbackHost(e.SMTP_HOST);
   return {
     host: e.SMTP_HOST,
     port: e.SMTP_PORT,
@@ -37,6 +51,7 @@ export function smtpSettingsFromEnv(overrides: Partial<SmtpSettings> = {}): Smtp
     user: inbox ? undefined : e.SMTP_USER,
     password: inbox ? undefined : e.SMTP_PASSWORD,
     ignoreTLS: inbox,
+    requireTLS: !inbox && !e.SMTP_SECURE && !local,
     connectionTimeout: 10_000,
     greetingTimeout: 10_000,
     socketTimeout: 60_000,
@@ -86,6 +101,7 @@ export function beginDelivery(
       port: settings.port,
       secure: settings.secure,
       ignoreTLS: settings.ignoreTLS,
+      requireTLS: settings.requireTLS,
       connectionTimeout: settings.connectionTimeout,
       greetingTimeout: settings.greetingTimeout,
       socketTimeout: settings.socketTimeout,

@@ -1,8 +1,9 @@
 import "server-only";
 import { sql } from "drizzle-orm";
 import { db } from "@/db";
+import { AppError } from "@/lib/http/errors";
 
-// Rate limits kept in PostgreSQL, so a limit holds across app servers and restarts. Each key counts
+// The one rate limiter: every limit Benchclear applies is a named rule below, counted here. Rate limits kept in PostgreSQL, so a limit holds across app servers and restarts. Each key counts
 // hits in fixed windows of `windowSeconds`; the decision uses the sliding-window estimate
 //   estimate = hits(previous window) · (1 − elapsed / window) + hits(current window)
 // which smooths the burst a plain fixed window allows at its boundary. Every hit is counted, refused
@@ -24,6 +25,38 @@ export type RateLimitResult = {
   /** Seconds until the estimate falls back to the limit, if no further hits come; 0 when allowed. */
   retryAfterSeconds: number;
 };
+
+/**
+ * Every limit, by name. Figures are common practice, not from a standard; why each is what it is:
+ *
+ * - signInAccount — 5 wrong passwords per e-mail in 15 min, from anywhere. This is what stops
+ *   guessing one account's password (ASVS 2.2.1 / 6.3.5: ≤ 100 failed attempts an hour; 5 per 15 min is
+ *   20 an hour). A correct sign-in clears it.
+ * - signInAddress — 100 failed sign-ins per client address (an IPv6 /64) in 15 min, counted only for
+ *   devices that have not signed in to that account before (lib/auth/known-device.ts). This stops one
+ *   machine spraying a common password across many accounts. A campus reaches us from one NAT
+ *   address: at a busy start of term perhaps 1 000 sign-ins in a quarter hour with a 10 % typo rate is
+ *   100 failures, and most of those come from devices that have signed in before, which this rule
+ *   does not count or refuse — so one person hammering from the campus network cannot lock everyone
+ *   out: known devices keep signing in, and only first sign-ins from new devices on that network wait
+ *   at most 15 min. Successful sign-ins give their slot back.
+ * - statusPage — 300 look-ups per client address in 10 min on the public permit status page. A person
+ *   checks one permit per scan; a campus NAT with many phones at an open day stays well under one a
+ *   second. Codes are 256-bit random, so this only bounds scraping load, not guessing.
+ * - signing — 5 wrong passwords per signer in 15 min when approving, rejecting or revoking: a session
+ *   left open cannot be used to guess the password.
+ * - passwordChange — 5 wrong current passwords per user in 15 min on the password change form, for
+ *   the same reason.
+ */
+export const RULES = {
+  signInAccount: { prefix: "signin:account", limit: 5, windowSeconds: 15 * 60 },
+  signInAddress: { prefix: "signin:address", limit: 100, windowSeconds: 15 * 60 },
+  statusPage: { prefix: "verify:address", limit: 300, windowSeconds: 10 * 60 },
+  signing: { prefix: "signing:user", limit: 5, windowSeconds: 15 * 60 },
+  passwordChange: { prefix: "password-change:user", limit: 5, windowSeconds: 15 * 60 },
+} as const satisfies Record<string, RateLimitRule & { prefix: string }>;
+
+export type RuleName = keyof typeof RULES;
 
 const MAX_WINDOW_SECONDS = 86_400;
 const MAX_KEY_LENGTH = 200;
@@ -126,4 +159,42 @@ export async function prune(now?: Date): Promise<void> {
   await db.execute(
     sql`DELETE FROM rate_limit_counter WHERE window_start < coalesce(${at}::timestamptz, now()) - interval '2 days'`,
   );
+}
+
+function keyOf(name: RuleName, subject: string): string {
+  return `${RULES[name].prefix}:${subject.toLowerCase().slice(0, 150)}`;
+}
+
+/**
+ * Counts one attempt under a named rule, atomically: the count is bumped and read in one statement,
+ * so of N parallel attempts exactly `limit` (less what the window already holds) are allowed. Count
+ * before doing the guarded work (checking a password), not after, or parallel requests all pass the
+ * check before any of them is recorded.
+ */
+export function attempt(name: RuleName, subject: string, now?: Date): Promise<RateLimitResult> {
+  return hitRateLimit(keyOf(name, subject), RULES[name], now);
+}
+
+/** Whether an attempt now would be allowed, without counting it. */
+export function peek(name: RuleName, subject: string, now?: Date): Promise<RateLimitResult> {
+  return peekRateLimit(keyOf(name, subject), RULES[name], now);
+}
+
+/** Gives back one counted attempt (it turned out fine: a correct password). */
+export async function forgive(name: RuleName, subject: string): Promise<void> {
+  const key = keyOf(name, subject);
+  await db.execute(sql`
+    UPDATE rate_limit_counter SET hits = greatest(hits - 1, 0)
+    WHERE key = ${key}
+      AND window_start = (SELECT max(window_start) FROM rate_limit_counter WHERE key = ${key})`);
+}
+
+/** Forgets every attempt under a rule for a subject (a correct sign-in clears the account's count). */
+export async function clear(name: RuleName, subject: string): Promise<void> {
+  await db.execute(sql`DELETE FROM rate_limit_counter WHERE key = ${keyOf(name, subject)}`);
+}
+
+/** The 429 answer for a refused attempt, with Retry-After. */
+export function tooMany(result: RateLimitResult, message: string): AppError {
+  return new AppError("rate_limited", message, { retryAfterSeconds: Math.max(1, result.retryAfterSeconds) });
 }

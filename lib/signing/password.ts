@@ -4,43 +4,39 @@ import { db } from "@/db";
 import { users } from "@/db/schema";
 import type { CurrentUser } from "@/lib/auth/guards";
 import { verifyPassword } from "@/lib/auth/password";
-import { checkThrottle, recordAttempt } from "@/lib/auth/throttle";
 import { AppError } from "@/lib/http/errors";
+import { attempt, clear, tooMany } from "@/lib/ratelimit";
 
 // Approve, reject and revoke re-ask the signer's password first, outside the transaction of the
 // decision so no row lock waits on argon2.
 
-/** Where a signature was given from, for throttling password guesses per address. */
+/** Where a signature was given from (the client address; the clock, for tests). */
 export type SigningContext = { ip?: string; now?: Date };
 
 const WRONG_PASSWORD = "The password is not correct.";
 
 /**
- * Re-asks the signer's password (security.md: approve, reject and revoke). Failures count toward
- * the same throttle as sign-in, so a left-open session cannot be used to guess the password.
+ * Re-asks the signer's password (security.md: approve, reject and revoke). Each try is counted under
+ * the signing rule (lib/ratelimit) before the check, atomically, so a left-open session cannot be
+ * used to guess the password; a correct password clears the count. (The real clock, not ctx.now:
+ * counters live in real time.)
  */
 export async function verifySignerPassword(
   actor: CurrentUser,
   password: string,
-  ctx: SigningContext = {},
+  _ctx: SigningContext = {},
 ): Promise<void> {
-  const ip = ctx.ip ?? "unknown";
-  const email = actor.email.toLowerCase();
-  const throttle = await checkThrottle(email, ip);
-  if (throttle.limited) {
-    throw new AppError("rate_limited", "Too many wrong passwords. Wait a little and try again.", {
-      retryAfterSeconds: throttle.retryAfterSeconds,
-    });
-  }
+  const limit = await attempt("signing", actor.id);
+  if (!limit.allowed) throw tooMany(limit, "Too many wrong passwords. Wait a little and try again.");
   const [row] = await db
     .select({ passwordHash: users.passwordHash })
     .from(users)
     .where(and(eq(users.id, actor.id), isNull(users.disabledAt)));
   const ok = await verifyPassword(row?.passwordHash, password);
   if (!ok) {
-    await recordAttempt(email, ip, false);
     throw new AppError("invalid", `password: ${WRONG_PASSWORD}`, {
       issues: [{ path: "password", message: WRONG_PASSWORD }],
     });
   }
+  await clear("signing", actor.id);
 }

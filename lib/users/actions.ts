@@ -7,9 +7,10 @@ import { writeAudit } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
 import { hashPassword, verifyPassword } from "@/lib/auth/password";
 import { passwordProblem } from "@/lib/auth/password-policy";
-import { env } from "@/lib/env";
 import { AppError, conflict, notFound } from "@/lib/http/errors";
 import { queueInvitationMail } from "@/lib/mail/invitations";
+import { invitationToken, invitationUrl } from "./invitation-token";
+import { attempt, clear, tooMany } from "@/lib/ratelimit";
 
 // Writes for accounts: invitations, accepting them, role/department/disable changes and password
 // changes. Each change and its audit row share one transaction.
@@ -24,15 +25,15 @@ export function newToken(): string {
   return crypto.randomBytes(32).toString("base64url"); // 256 bits
 }
 
-export function invitationUrl(token: string): string {
-  return new URL(`/invite/${token}`, env().APP_URL).toString();
-}
+export { invitationUrl };
 
 type InviteInput = { email: string; name: string; roles: Role[]; departmentId: string | null };
 
 export async function inviteUser(actor: CurrentUser, input: InviteInput, now = new Date()) {
   assertCan(actor, "admin.users");
-  const token = newToken();
+  // The token is derived from the id (./invitation-token.ts), so the mail can be rendered from the id.
+  const id = crypto.randomUUID();
+  const token = invitationToken(id);
   const expiresAt = new Date(now.getTime() + INVITATION_DAYS * 24 * 3600 * 1000);
   const invitation = await db.transaction(async (tx) => {
     const [existing] = await tx
@@ -57,7 +58,7 @@ export async function inviteUser(actor: CurrentUser, input: InviteInput, now = n
       .where(and(eq(invitations.email, input.email), isNull(invitations.usedAt), isNull(invitations.revokedAt)));
     const [row] = await tx
       .insert(invitations)
-      .values({ ...input, tokenHash: hashToken(token), invitedById: actor.id, expiresAt })
+      .values({ ...input, id, tokenHash: hashToken(token), invitedById: actor.id, expiresAt })
       .returning({ id: invitations.id, email: invitations.email, expiresAt: invitations.expiresAt });
     await writeAudit(tx, {
       actor,
@@ -70,7 +71,7 @@ export async function inviteUser(actor: CurrentUser, input: InviteInput, now = n
       to: input.email,
       name: input.name,
       invitedBy: actor.name,
-      url: invitationUrl(token),
+      invitationId: id,
       expiresAt,
     });
     return row;
@@ -150,6 +151,19 @@ export async function updateUser(actor: CurrentUser, userId: string, changes: Us
       .where(eq(users.id, userId))
       .for("update");
     if (!before) throw notFound("That user");
+    if (userId === actor.id) {
+      // Separation of duties: nobody widens or moves their own access. Another admin makes the change
+      // on this account (the ordinary PATCH, as that admin), so every role change has a second person.
+      const sameRoles =
+        !changes.roles ||
+        (changes.roles.length === before.roles.length && changes.roles.every((r) => before.roles.includes(r)));
+      const sameDepartment = changes.departmentId === undefined || changes.departmentId === before.departmentId;
+      if (!sameRoles || !sameDepartment) {
+        throw conflict(
+          "You cannot change your own roles or department: ask another admin to make the change on your account.",
+        );
+      }
+    }
     const now = new Date();
     const set: Partial<typeof users.$inferInsert> = { updatedAt: now };
     if (changes.roles) set.roles = changes.roles;
@@ -174,6 +188,10 @@ export async function updateUser(actor: CurrentUser, userId: string, changes: Us
 }
 
 export async function changePassword(actor: CurrentUser, currentPassword: string, newPassword: string) {
+  // Counted before the check, atomically (lib/ratelimit): a session left open cannot be used to guess
+  // the current password, even with parallel requests.
+  const limit = await attempt("passwordChange", actor.id);
+  if (!limit.allowed) throw tooMany(limit, "Too many wrong current passwords. Wait a little and try again.");
   const [row] = await db.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, actor.id));
   if (!(await verifyPassword(row?.passwordHash, currentPassword))) {
     throw new AppError("invalid", "currentPassword: that is not your current password", {
@@ -183,6 +201,7 @@ export async function changePassword(actor: CurrentUser, currentPassword: string
   const problem = passwordProblem(newPassword, { email: actor.email, name: actor.name });
   if (problem)
     throw new AppError("invalid", `newPassword: ${problem}`, { issues: [{ path: "newPassword", message: problem }] });
+  await clear("passwordChange", actor.id);
   const passwordHash = await hashPassword(newPassword);
   await db.transaction(async (tx) => {
     await tx
@@ -190,6 +209,17 @@ export async function changePassword(actor: CurrentUser, currentPassword: string
       .set({ passwordHash, updatedAt: new Date(), sessionVersion: sql`${users.sessionVersion} + 1` })
       .where(eq(users.id, actor.id));
     await writeAudit(tx, { actor, action: "user.password_changed", entityType: "user", entityId: actor.id });
+  });
+}
+
+/** Signs a user out: ends every session (below) and records it in the audit trail, in one transaction. */
+export async function signOutUser(actor: CurrentUser): Promise<void> {
+  await db.transaction(async (tx) => {
+    await tx
+      .update(users)
+      .set({ sessionVersion: sql`${users.sessionVersion} + 1` })
+      .where(eq(users.id, actor.id));
+    await writeAudit(tx, { actor, action: "session.signed_out", entityType: "user", entityId: actor.id });
   });
 }
 

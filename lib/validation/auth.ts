@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { safeReturnPath } from "@/lib/http/return-path";
 
 // Schemas for sign-in, invitations and passwords, shared by the forms and the server.
 
@@ -13,12 +14,14 @@ export const emailSchema = z
   .pipe(z.email({ error: "Enter a valid e-mail address." }))
   .transform((v) => v.toLowerCase());
 
-/** A path inside this site to return to after signing in; anything else becomes "/". */
+/**
+ * A path inside this site to return to after signing in, resolved against our origin and reduced to
+ * path and query (lib/http/return-path.ts); anything else, too long ones included, becomes "/".
+ */
 export const returnPathSchema = z
   .string()
-  .max(500)
   .optional()
-  .transform((v) => (v && v.startsWith("/") && !v.startsWith("//") && !v.startsWith("/\\") ? v : "/"));
+  .transform((v) => safeReturnPath(v));
 
 export const signInSchema = z.object({
   email: emailSchema,

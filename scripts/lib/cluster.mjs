@@ -4,6 +4,7 @@
 import { spawnSync } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
+import { nextCommand } from "./next-server.mjs";
 import { bin, ensureDebianPackages, SetupError, startChild, stopChild, waitForHttp } from "./services.mjs";
 
 export const HAPROXY = "/usr/sbin/haproxy";
@@ -71,6 +72,8 @@ export async function startCluster({ env, distDir = ".next", dir, ports, bucket 
     AUTH_TRUST_HOST: "true",
     // One proxy (HAProxy) stands between the client and each app server.
     TRUSTED_PROXY_HOPS: "1",
+    // Every piece on 127.0.0.1 with the local inbox and the demo accounts (lib/env.ts).
+    BENCHCLEAR_LOCAL_DEMO: env.BENCHCLEAR_LOCAL_DEMO ?? "1",
     WORKER_IN_APP: "false",
     NEXT_MANUAL_SIG_HANDLE: "true",
     // Longer than the balancer needs to see three failed checks (3 × 1 s, each up to 4 s when busy).
@@ -96,7 +99,8 @@ export async function startCluster({ env, distDir = ".next", dir, ports, bucket 
   const servers = new Map();
   const startServer = async (name) => {
     const port = ports[name];
-    const child = startChild(`app server ${name}`, bin("next"), ["start", "-p", String(port), "-H", "127.0.0.1"], {
+    // With the peer-address preload (lib/http/client-ip.ts): production refuses to start without it.
+    const child = startChild(`app server ${name}`, ...nextCommand(["start", "-p", String(port), "-H", "127.0.0.1"]), {
       env: { ...appEnv, PORT: String(port) },
       stdio: stdio(`app-${name}`),
     });

@@ -1,5 +1,3 @@
-import fs from "node:fs";
-import path from "node:path";
 import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
@@ -7,37 +5,11 @@ import { users } from "@/db/schema";
 import { createRoleSet, createUser, requireDatabase, uniq } from "../support/db";
 import { http, signIn } from "../support/http";
 import { MATRIX, type Expectation, type MatrixContext, type MatrixRow, type Principal } from "./matrix";
+import { builtRoutes, discoverRoutes, discoverServerActionFiles } from "./route-tree";
 
 requireDatabase();
 
 const PRINCIPALS: Principal[] = ["anonymous", "instructor", "reviewer", "safety_officer", "admin"];
-
-/** Every route handler method and page in app/, as "METHOD /route". */
-function discoverRoutes(): string[] {
-  const found: string[] = [];
-  const walk = (dir: string) => {
-    for (const entry of fs.readdirSync(dir, { withFileTypes: true })) {
-      const full = path.join(dir, entry.name);
-      if (entry.isDirectory()) walk(full);
-      else if (entry.name === "route.ts" || entry.name === "page.tsx") {
-        const segments = path
-          .relative("app", path.dirname(full))
-          .split(path.sep)
-          .filter((s) => s && !/^\(.*\)$/.test(s) && !s.startsWith("_"));
-        const route = "/" + segments.join("/");
-        if (entry.name === "page.tsx") found.push(`PAGE ${route}`);
-        else {
-          const source = fs.readFileSync(full, "utf8");
-          for (const m of source.matchAll(/export (?:const|async function) (GET|POST|PUT|PATCH|DELETE)\b/g)) {
-            found.push(`${m[1]} ${route}`);
-          }
-        }
-      }
-    }
-  };
-  walk("app");
-  return found.sort();
-}
 
 function matches(status: number, location: string | null, expected: Expectation): boolean {
   if (typeof expected === "number") return status === expected;
@@ -79,6 +51,23 @@ describe("authorization matrix", () => {
       [...rows].filter((r) => !routes.includes(r)),
       "matrix rows without a route",
     ).toEqual([]);
+  });
+
+  it("reads the same route tree the production build serves, and finds no server action without rows", () => {
+    // Cross-check the source walk against the build's own list, so a file convention the walk does
+    // not know (a new extension, a new kind of folder) cannot hide a route from the matrix.
+    const built = builtRoutes();
+    if (built) {
+      const fromSource = new Set(discoverRoutes().map((r) => (r.startsWith("PAGE ") ? r : `ROUTE ${r.split(" ")[1]}`)));
+      expect(
+        built.filter((r) => !fromSource.has(r)),
+        "routes in the build that the source walk missed",
+      ).toEqual([]);
+    }
+    // Server actions are POST endpoints too; the matrix has no rows for them yet, so none may exist.
+    expect(discoverServerActionFiles(), "server actions need matrix rows").toEqual([]);
+    // A route file that exports no method is reported, not skipped.
+    expect(discoverRoutes().filter((r) => r.startsWith("NONE ") || r.includes("* from"))).toEqual([]);
   });
 
   const cells = (row: MatrixRow) => [

@@ -42,11 +42,14 @@ export async function http(path: string, options: HttpOptions = {}) {
 
 /**
  * A fresh client address per call (from the IPv6 documentation prefix, RFC 3849: only ever a header
- * value, never a destination), so throttling in one test never spills into another.
+ * value, never a destination), so throttling in one test never spills into another. The random part
+ * is in the network half: the app counts IPv6 clients per /64 (lib/http/client-ip.ts addressBucket).
+ * The test server trusts one proxy hop (scripts/test.mjs), so the right-most X-Forwarded-For entry is
+ * the client.
  */
 export function randomIp(): string {
   const h = crypto.randomBytes(6).toString("hex");
-  return `2001:db8::${h.slice(0, 4)}:${h.slice(4, 8)}:${h.slice(8, 12)}`;
+  return `2001:db8:${h.slice(0, 4)}:${h.slice(4, 8)}::${h.slice(8, 12)}`;
 }
 
 function cookiesFrom(headers: Headers): string {

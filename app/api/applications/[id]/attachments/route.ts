@@ -15,35 +15,42 @@ const uploadSchema = z.object({
 const tooLarge = (what: string) =>
   new AppError("payload_too_large", `file: ${what}`, { issues: [{ path: "file", message: what }] });
 
-// route() reads only JSON bodies; this handler declares none and reads the multipart form itself,
-// after route() has checked the origin, the session and the permission.
-export const POST = route({ access: "application.create" }, async ({ request, user, params }) => {
-  const id = idParam(params.id, "That application");
-  await assertCanAttach(user, id);
-  const type = request.headers.get("content-type") ?? "";
-  if (!/^multipart\/form-data/i.test(type)) {
-    throw new AppError("unsupported_media_type", "Send the file as multipart/form-data in the field “file”.");
-  }
-  const length = Number(request.headers.get("content-length") ?? "0");
-  if (length > ATTACHMENT_REQUEST_MAX_BYTES) {
-    throw tooLarge(
-      `The file is larger than ${formatBytes(ATTACHMENT_MAX_BYTES)}; each file may be at most ${formatBytes(ATTACHMENT_MAX_BYTES)}.`,
-    );
-  }
-  let form: FormData;
-  try {
-    form = await request.formData();
-  } catch {
-    throw new AppError("bad_request", "The upload could not be read (it may have been cut short). Try again.");
-  }
-  const parsed = uploadSchema.safeParse({ file: form.get("file") });
-  if (!parsed.success) throw fromZodError(parsed.error);
-  const file = parsed.data.file;
-  if (file.size > ATTACHMENT_MAX_BYTES) {
-    throw tooLarge(
-      `The file is ${formatBytes(file.size)}; each file may be at most ${formatBytes(ATTACHMENT_MAX_BYTES)}.`,
-    );
-  }
-  const attachment = await addAttachment(user, id, { name: file.name, bytes: Buffer.from(await file.arrayBuffer()) });
-  return Response.json({ attachment }, { status: 201 });
-});
+// route() reads the body through the bounded reader (lib/http/body.ts): counted as it streams and cut
+// at one file's limit plus multipart framing, Content-Length or not, chunked or not. Only then is the
+// form parsed, from those bytes.
+export const POST = route(
+  {
+    access: "application.create",
+    rawBody: {
+      maxBytes: ATTACHMENT_REQUEST_MAX_BYTES,
+      contentType: /^multipart\/form-data\b/i,
+      typeError: "Send the file as multipart/form-data in the field “file”.",
+      tooLarge: () =>
+        tooLarge(
+          `The file is larger than ${formatBytes(ATTACHMENT_MAX_BYTES)}; each file may be at most ${formatBytes(ATTACHMENT_MAX_BYTES)}.`,
+        ),
+    },
+  },
+  async ({ request, rawBody, user, params }) => {
+    const id = idParam(params.id, "That application");
+    await assertCanAttach(user, id);
+    let form: FormData;
+    try {
+      form = await new Response(new Uint8Array(rawBody), {
+        headers: { "content-type": request.headers.get("content-type") ?? "" },
+      }).formData();
+    } catch {
+      throw new AppError("bad_request", "The upload could not be read (it may have been cut short). Try again.");
+    }
+    const parsed = uploadSchema.safeParse({ file: form.get("file") });
+    if (!parsed.success) throw fromZodError(parsed.error);
+    const file = parsed.data.file;
+    if (file.size > ATTACHMENT_MAX_BYTES) {
+      throw tooLarge(
+        `The file is ${formatBytes(file.size)}; each file may be at most ${formatBytes(ATTACHMENT_MAX_BYTES)}.`,
+      );
+    }
+    const attachment = await addAttachment(user, id, { name: file.name, bytes: Buffer.from(await file.arrayBuffer()) });
+    return Response.json({ attachment }, { status: 201 });
+  },
+);

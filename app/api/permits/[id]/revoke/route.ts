@@ -1,7 +1,7 @@
 // POST /api/permits/[id]/revoke — a safety officer revokes an active permit, with a reason and their
 // password; the holder and the people named on it are told by e-mail.
 import { z } from "zod";
-import { clientIp } from "@/lib/auth/throttle";
+import { clientIp } from "@/lib/http/client-ip";
 import { fromZodError } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { revokePermit } from "@/lib/permits/revoke";

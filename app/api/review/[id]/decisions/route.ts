@@ -2,7 +2,7 @@
 // recommend, return (comment), approve (password, requirements confirmed, validity window) or
 // reject (password, comment). 403 for the wrong person, 409 when it is no longer waiting for it.
 import { z } from "zod";
-import { clientIp } from "@/lib/auth/throttle";
+import { clientIp } from "@/lib/http/client-ip";
 import { fromZodError } from "@/lib/http/errors";
 import { route } from "@/lib/http/route";
 import { decide } from "@/lib/review/decide";
