@@ -20,8 +20,8 @@ type Context<B, Q, A extends Access> = {
   request: Request;
   user: A extends "public" ? CurrentUser | null : CurrentUser;
   body: B;
-  /** The raw body, when the route declared `rawBody`. */
-  rawBody: Buffer;
+  /** Reads the raw body through the bounded reader, when the route declared `rawBody` (uploads). */
+  readRawBody: () => Promise<Buffer>;
   query: Q;
   params: Record<string, string>;
 };
@@ -32,8 +32,8 @@ type Options<B, Q, A extends Access> = {
   query?: z.ZodType<Q>;
   /** Raw body limit in bytes for JSON bodies (default 256 KiB). */
   maxBodyBytes?: number;
-  /** The route reads the body itself (uploads): bytes, at most this many, checked after access. */
-  rawBody?: { maxBytes: number; contentType: RegExp; typeError: string; tooLarge?: () => AppError };
+  /** The route reads the body itself (uploads), through ctx.readRawBody(): at most this many bytes. */
+  rawBody?: { maxBytes: number; tooLarge?: () => AppError };
 };
 
 const MUTATING = new Set(["POST", "PUT", "PATCH", "DELETE"]);
@@ -92,18 +92,17 @@ export function route<B = undefined, Q = undefined, A extends Access = Access>(
       }
 
       let body = undefined as B;
-      let rawBody: Buffer = Buffer.alloc(0);
+      const rawOptions = options.rawBody;
+      // Uploads read their body after their own record checks (404 before 415 before reading).
+      const readRawBody = rawOptions
+        ? () => readBodyBytes(request, rawOptions.maxBytes, rawOptions.tooLarge)
+        : () => Promise.reject(new Error("this route declared no rawBody"));
       if (options.body) {
         const raw = await readJsonBody(request, options.maxBodyBytes ?? DEFAULT_BODY_LIMIT_BYTES);
         const parsed = options.body.safeParse(raw);
         if (!parsed.success) throw fromZodError(parsed.error);
         body = parsed.data;
-      } else if (options.rawBody) {
-        if (!options.rawBody.contentType.test(request.headers.get("content-type") ?? "")) {
-          throw new AppError("unsupported_media_type", options.rawBody.typeError);
-        }
-        rawBody = await readBodyBytes(request, options.rawBody.maxBytes, options.rawBody.tooLarge);
-      } else if (request.body) {
+      } else if (!rawOptions && request.body) {
         await discardBody(request);
       }
 
@@ -111,7 +110,7 @@ export function route<B = undefined, Q = undefined, A extends Access = Access>(
         request,
         user: user as Context<B, Q, A>["user"],
         body,
-        rawBody,
+        readRawBody,
         query,
         params,
       });

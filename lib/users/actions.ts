@@ -10,7 +10,7 @@ import { passwordProblem } from "@/lib/auth/password-policy";
 import { AppError, conflict, notFound } from "@/lib/http/errors";
 import { queueInvitationMail } from "@/lib/mail/invitations";
 import { invitationToken, invitationUrl } from "./invitation-token";
-import { attempt, clear, tooMany } from "@/lib/ratelimit";
+import { attempt, clear, peek, tooMany } from "@/lib/ratelimit";
 
 // Writes for accounts: invitations, accepting them, role/department/disable changes and password
 // changes. Each change and its audit row share one transaction.
@@ -188,12 +188,13 @@ export async function updateUser(actor: CurrentUser, userId: string, changes: Us
 }
 
 export async function changePassword(actor: CurrentUser, currentPassword: string, newPassword: string) {
-  // Counted before the check, atomically (lib/ratelimit): a session left open cannot be used to guess
-  // the current password, even with parallel requests.
-  const limit = await attempt("passwordChange", actor.id);
+  // Wrong current passwords are counted (lib/ratelimit passwordChange), so a session left open cannot
+  // be used to guess the password; the check is a peek, as for signing (lib/signing/password.ts).
+  const limit = await peek("passwordChange", actor.id);
   if (!limit.allowed) throw tooMany(limit, "Too many wrong current passwords. Wait a little and try again.");
   const [row] = await db.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, actor.id));
   if (!(await verifyPassword(row?.passwordHash, currentPassword))) {
+    await attempt("passwordChange", actor.id);
     throw new AppError("invalid", "currentPassword: that is not your current password", {
       issues: [{ path: "currentPassword", message: "That is not your current password." }],
     });

@@ -15,25 +15,28 @@ const uploadSchema = z.object({
 const tooLarge = (what: string) =>
   new AppError("payload_too_large", `file: ${what}`, { issues: [{ path: "file", message: what }] });
 
-// route() reads the body through the bounded reader (lib/http/body.ts): counted as it streams and cut
-// at one file's limit plus multipart framing, Content-Length or not, chunked or not. Only then is the
-// form parsed, from those bytes.
+// After the record check and the type check, the body is read through the bounded reader
+// (readRawBody, lib/http/body.ts): counted as it streams and cut at one file's limit plus multipart
+// framing, Content-Length or not, chunked or not. Only then is the form parsed, from those bytes.
 export const POST = route(
   {
     access: "application.create",
     rawBody: {
       maxBytes: ATTACHMENT_REQUEST_MAX_BYTES,
-      contentType: /^multipart\/form-data\b/i,
-      typeError: "Send the file as multipart/form-data in the field “file”.",
       tooLarge: () =>
         tooLarge(
           `The file is larger than ${formatBytes(ATTACHMENT_MAX_BYTES)}; each file may be at most ${formatBytes(ATTACHMENT_MAX_BYTES)}.`,
         ),
     },
   },
-  async ({ request, rawBody, user, params }) => {
+  async ({ request, readRawBody, user, params }) => {
     const id = idParam(params.id, "That application");
     await assertCanAttach(user, id);
+    const type = request.headers.get("content-type") ?? "";
+    if (!/^multipart\/form-data\b/i.test(type)) {
+      throw new AppError("unsupported_media_type", "Send the file as multipart/form-data in the field “file”.");
+    }
+    const rawBody = await readRawBody();
     let form: FormData;
     try {
       form = await new Response(new Uint8Array(rawBody), {
