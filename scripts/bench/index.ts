@@ -35,6 +35,7 @@ import {
   waitForHttp,
   // @ts-expect-error plain JavaScript helpers shared with the start and test scripts
 } from "../lib/services.mjs";
+import { nextCommand } from "../lib/next-server.mjs";
 import { statementsFromLog, type Statement } from "./capture";
 import { databaseUrlFor, ensureBase, makeDataset, type Dataset } from "./data";
 import { renderMarkdown } from "./report";
@@ -222,6 +223,11 @@ function appEnv(env: Env, database: string): Env {
     AUTH_URL: url,
     AUTH_TRUST_HOST: "true",
     WORKER_IN_APP: "false",
+    // The production build on this machine with the demo accounts and the local inbox (lib/env.ts).
+    BENCHCLEAR_LOCAL_DEMO: "1",
+    // The harness stands in for one reverse proxy: each simulated client names itself in
+    // X-Forwarded-For, so the public page's per-client limit sees many clients (lib/http/client-ip.ts).
+    TRUSTED_PROXY_HOPS: "1",
     STORAGE_DIR: path.join(BENCH_DIR, "uploads"),
     LOCAL_INBOX_DIR: path.join(BENCH_DIR, "mail"),
     NEXT_TELEMETRY_DISABLED: "1",
@@ -232,7 +238,7 @@ function appEnv(env: Env, database: string): Env {
 async function startApp(env: Env, database: string): Promise<App> {
   await requireFreePort(APP_PORT, "the benchmark's app server", "BENCH_APP_PORT");
   const logFile = path.join(BENCH_DIR, `app-${APP_PORT}.log`);
-  const child = startChild("bench app", bin("next"), ["start", "-p", String(APP_PORT), "-H", "127.0.0.1"], {
+  const child = startChild("bench app", ...nextCommand(["start", "-p", String(APP_PORT), "-H", "127.0.0.1"]), {
     env: appEnv(env, database),
     stdio: ["ignore", fs.openSync(logFile, "w"), fs.openSync(logFile, "a")],
   });
