@@ -28,7 +28,7 @@ export const permits = pgTable(
   "permit",
   {
     id: uuid().primaryKey().defaultRandom(),
-    // AW-YYYY-NNNN, sequential per year without gaps (permit_counter).
+    // PREFIX-YYYY-NNNN (institution_settings.permit_prefix), sequential per year without gaps (permit_counter).
     number: text().notNull().unique(),
     year: smallint().notNull(),
     seq: integer().notNull(),

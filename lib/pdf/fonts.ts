@@ -20,7 +20,7 @@ export function registerFonts(): void {
     ],
   });
   Font.register({ family: MONO, src: path.join(dir, "BenchclearMono-Regular.ttf") });
-  // No hyphenation: a split figure or permit number ("AW-2026-00-\n03") misreads at the bench, and
+  // No hyphenation: a split figure or permit number ("HV-2026-00-\n03") misreads at the bench, and
   // text read back by tools must match what was written.
   Font.registerHyphenationCallback((word) => [word]);
   registered = true;

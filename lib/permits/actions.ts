@@ -7,6 +7,7 @@ import { assertCan, type CurrentUser } from "@/lib/auth/guards";
 import { conflict, notFound } from "@/lib/http/errors";
 import { effectivePermitState } from "./dates";
 import { formatPermitNumber, newVerificationCode } from "./numbers";
+import { permitPrefix } from "@/lib/settings/queries";
 import { institutionToday } from "./queries";
 import { renewalDraft } from "./renewal";
 
@@ -16,7 +17,9 @@ import { renewalDraft } from "./renewal";
 /**
  * The next number of `year`, taken inside the caller's transaction. The upsert locks the year's
  * counter row until the transaction ends, so concurrent approvals take numbers one after another;
- * a transaction that rolls back gives its number back. No gaps, no duplicates.
+ * a transaction that rolls back gives its number back. No gaps, no duplicates. The prefix is read
+ * after the lock is held, so a permit takes the prefix in force when its number is drawn; the
+ * sequence is per year whatever the prefix (HV-2026-0041 then LAB-2026-0042 after a change).
  */
 export async function nextPermitNumber(tx: Tx, year: number): Promise<{ year: number; seq: number; number: string }> {
   const [row] = await tx
@@ -24,7 +27,8 @@ export async function nextPermitNumber(tx: Tx, year: number): Promise<{ year: nu
     .values({ year, last: 1 })
     .onConflictDoUpdate({ target: permitCounters.year, set: { last: sql`${permitCounters.last} + 1` } })
     .returning({ last: permitCounters.last });
-  return { year, seq: row.last, number: formatPermitNumber(year, row.last) };
+  const prefix = await permitPrefix(tx);
+  return { year, seq: row.last, number: formatPermitNumber(prefix, year, row.last) };
 }
 
 export type IssueInput = {

@@ -27,7 +27,7 @@ const data: PrintData = {
     ],
   },
   permit: {
-    number: "AW-2026-0001",
+    number: "HV-2026-0001",
     state: "active",
     tier: assessment.tier,
     tierLabel: TIER_LABELS[assessment.tier],

@@ -1,5 +1,7 @@
 import fc from "fast-check";
-import { beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { getDb } from "@/db";
+import { institutionSettings } from "@/db/schema";
 import { MATRIX, type MatrixContext } from "../auth/matrix";
 import { createRoleSet, createUser, requireDatabase, uniq } from "../support/db";
 import { http, signIn } from "../support/http";
@@ -16,7 +18,16 @@ describe("arbitrary JSON to every mutating endpoint", () => {
   let cookie: string;
   let ctx: Omit<MatrixContext, "data" | "targetUserId">;
 
+  // A random body can be a valid settings change (PATCH /api/admin/settings with permitPrefix "A"):
+  // put the institution's settings back so later test files see the defaults they expect.
+  let settingsBefore: (typeof institutionSettings.$inferSelect)[] = [];
+  afterAll(async () => {
+    await getDb().delete(institutionSettings);
+    if (settingsBefore.length) await getDb().insert(institutionSettings).values(settingsBefore);
+  });
+
   beforeAll(async () => {
+    settingsBefore = await getDb().select().from(institutionSettings);
     const set = await createRoleSet();
     const everyRole = await createUser({
       roles: ["instructor", "reviewer", "safety_officer", "admin"],

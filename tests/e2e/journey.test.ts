@@ -339,7 +339,7 @@ describe("the whole job, from invitation to reminder, in a real browser", () => 
       await officerPage.getByRole("button", { name: "Sign and approve" }).click();
       await expect
         .poll(() => officerPage.getByRole("status").first().textContent())
-        .toMatch(/Permit AW-\d{4}-\d{4} is issued/);
+        .toMatch(/Permit [A-Z][A-Z0-9]{0,5}-\d{4}-\d{4} is issued/);
       await expectAccessible(officerPage, "/applications/[id] approved");
 
       const permit = await permitForApplication(applicationId);

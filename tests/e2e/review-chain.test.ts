@@ -110,7 +110,7 @@ describe("the review chain, in a real browser", () => {
       await officer.getByRole("button", { name: "Sign and approve" }).click();
       await expect
         .poll(() => officer.getByRole("status").first().textContent())
-        .toMatch(/Permit AW-\d{4}-\d{4} is issued/);
+        .toMatch(/Permit [A-Z][A-Z0-9]{0,5}-\d{4}-\d{4} is issued/);
       await expectNoSeriousViolations(officer, "/applications/[id] approved");
 
       const [permit] = await getDb().select().from(permits).where(eq(permits.applicationId, application.id));

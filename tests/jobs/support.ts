@@ -124,7 +124,7 @@ export async function createPermitFixture(
     const [permit] = await tx
       .insert(permits)
       .values({
-        number: `AW-${FIXTURE_YEAR}-${String(seq).padStart(4, "0")}`,
+        number: `HV-${FIXTURE_YEAR}-${String(seq).padStart(4, "0")}`,
         year: FIXTURE_YEAR,
         seq,
         applicationId: application.id,

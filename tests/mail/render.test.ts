@@ -47,7 +47,7 @@ const MESSAGES: MailMessage[] = [
     data: {
       applicationId: id,
       permitId,
-      permitNumber: "AW-2026-0007",
+      permitNumber: "HV-2026-0007",
       title,
       validFrom: "2026-05-01",
       validTo: "2026-07-29",
@@ -61,17 +61,17 @@ const MESSAGES: MailMessage[] = [
   },
   {
     kind: "permit_revoked",
-    data: { permitId, permitNumber: "AW-2026-0007", title, reason: "Interlock bypassed.", signerName: "Dana Whitlock" },
+    data: { permitId, permitNumber: "HV-2026-0007", title, reason: "Interlock bypassed.", signerName: "Dana Whitlock" },
   },
   {
     kind: "permit_reminder",
-    data: { permitId, permitNumber: "AW-2026-0007", title, validTo: "2026-07-29", daysLeft: 7 },
+    data: { permitId, permitNumber: "HV-2026-0007", title, validTo: "2026-07-29", daysLeft: 7 },
   },
   {
     kind: "permit_reminder",
     data: {
       permitId,
-      permitNumber: "AW-2026-0007",
+      permitNumber: "HV-2026-0007",
       title,
       validTo: "2026-07-29",
       daysLeft: 0,
@@ -189,7 +189,7 @@ describe("iCalendar (RFC 5545)", () => {
       events: permitEvents(
         {
           id: permitId,
-          number: "AW-2026-0007",
+          number: "HV-2026-0007",
           title: "Sphere, gap; and \\ bank",
           validFrom: "2026-12-01",
           validTo: "2026-12-31",
@@ -206,7 +206,7 @@ describe("iCalendar (RFC 5545)", () => {
     // 31 December inclusive → DTEND 1 January of the next year.
     expect(unfolded).toContain("DTSTART;VALUE=DATE:20261201\r\nDTEND;VALUE=DATE:20270101");
     expect(unfolded).toContain("DTSTART;VALUE=DATE:20261231\r\nDTEND;VALUE=DATE:20270101");
-    expect(unfolded).toContain("SUMMARY:Permit AW-2026-0007 valid: Sphere\\, gap\\; and \\\\ bank");
+    expect(unfolded).toContain("SUMMARY:Permit HV-2026-0007 valid: Sphere\\, gap\\; and \\\\ bank");
     expect(unfolded).toContain("DTSTAMP:20261120T093000Z");
     expect(unfolded).toContain(`UID:permit-${permitId}-window@aldermere.example`);
     expect(unfolded).toContain(`URL:https://permits.aldermere.example/permits/${permitId}`);
@@ -217,7 +217,7 @@ describe("iCalendar (RFC 5545)", () => {
     const events = permitEvents(
       {
         id: permitId,
-        number: "AW-1",
+        number: "HV-1",
         title: "T",
         validFrom: "2026-01-01",
         validTo: "2026-01-02",

@@ -112,7 +112,7 @@ export function samplePrintData(tier: Tier, overrides: Partial<PrintData["permit
       ],
     },
     permit: {
-      number: `AW-2026-000${tier + 1}`,
+      number: `HV-2026-000${tier + 1}`,
       state: "active",
       tier: assessment.tier,
       tierLabel: TIER_LABELS[assessment.tier],

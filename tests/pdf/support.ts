@@ -59,7 +59,7 @@ async function nextNumber(): Promise<{ year: number; seq: number; number: string
     .values({ year: 2026, last: 1 })
     .onConflictDoUpdate({ target: permitCounters.year, set: { last: sql`${permitCounters.last} + 1` } })
     .returning({ last: permitCounters.last });
-  return { year: 2026, seq: row.last, number: `AW-2026-${String(row.last).padStart(4, "0")}` };
+  return { year: 2026, seq: row.last, number: `HV-2026-${String(row.last).padStart(4, "0")}` };
 }
 
 export type PermitFixture = Awaited<ReturnType<typeof createPermitFixture>>;

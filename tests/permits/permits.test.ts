@@ -74,9 +74,10 @@ describe("permit days (institution calendar, inclusive windows)", () => {
     expect(effectivePermitState({ state: "revoked", validTo: "2099-01-01" }, "2026-03-11")).toBe("revoked");
   });
 
-  it("numbers permits AW-YYYY-NNNN and draws 256-bit verification codes", () => {
-    expect(formatPermitNumber(2026, 7)).toBe("AW-2026-0007");
-    expect(formatPermitNumber(2026, 12345)).toBe("AW-2026-12345");
+  it("numbers permits PREFIX-YYYY-NNNN and draws 256-bit verification codes", () => {
+    // product.md: "a number (PREFIX-YYYY-NNNN, prefix from the institution settings, default HV)".
+    expect(formatPermitNumber("HV", 2026, 7)).toBe("HV-2026-0007");
+    expect(formatPermitNumber("PHYS2", 2026, 12345)).toBe("PHYS2-2026-12345");
     const codes = new Set(Array.from({ length: 200 }, () => newVerificationCode()));
     expect(codes.size).toBe(200);
     for (const code of codes) expect(Buffer.from(code, "base64url")).toHaveLength(32);

@@ -12,6 +12,7 @@ import { DECISION_MEANINGS } from "@/lib/signing/meanings";
 import { returnCommentsFor } from "@/lib/review/queries";
 import type { DecisionBody } from "@/lib/review/schemas";
 import { DEFAULT_CHAIN_RULES } from "@/lib/rules/chain";
+import { permitPrefix } from "@/lib/settings/queries";
 import { createUser, requireDatabase, TEST_PASSWORD } from "../support/db";
 import {
   asActor,
@@ -79,7 +80,8 @@ describe("tier 0: recorded, self-certified (product.md default rules)", () => {
     const { application } = await createSubmittedApplication({ applicant: team.instructor, tier: 0 });
     expect(application.state).toBe("approved");
     const [permit] = await getDb().select().from(permits).where(eq(permits.applicationId, application.id));
-    expect(permit.number).toMatch(/^AW-\d{4}-\d{4}$/);
+    // product.md: PREFIX-YYYY-NNNN, the prefix from the institution settings (default HV).
+    expect(permit.number).toBe(`${await permitPrefix()}-${permit.year}-${String(permit.seq).padStart(4, "0")}`);
     expect(inclusiveDays(permit.validFrom, permit.validTo)).toBe(365);
     expect(permit.holderId).toBe(team.instructor.id);
     expect(await getDb().select().from(decisions).where(eq(decisions.applicationId, application.id))).toEqual([]);

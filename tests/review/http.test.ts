@@ -129,7 +129,8 @@ describe("review and permits over HTTP", () => {
       contentHash: second.contentHash,
     });
     const permitId = approved.json?.permit.id as string;
-    expect(approved.json?.permit.number).toMatch(/^AW-\d{4}-\d{4}$/);
+    // product.md: PREFIX-YYYY-NNNN; the prefix is admin-editable (1–6 upper-case letters and digits).
+    expect(approved.json?.permit.number).toMatch(/^[A-Z][A-Z0-9]{0,5}-\d{4}-\d{4}$/);
 
     const permit = await http(`/api/permits/${permitId}`, { cookie: cookie.instructor });
     expect(permit.status).toBe(200);

@@ -1,10 +1,12 @@
 import { and, eq, sql } from "drizzle-orm";
-import { describe, expect, it } from "vitest";
+import { describe, expect, it, onTestFinished } from "vitest";
 import { getDb } from "@/db";
-import { auditEvents, decisions, permitCounters, permits } from "@/db/schema";
+import { auditEvents, decisions, permitCounters, permits, type Application } from "@/db/schema";
 import { AppError } from "@/lib/http/errors";
 import { nextPermitNumber } from "@/lib/permits/actions";
 import { decide } from "@/lib/review/decide";
+import { updateSettings } from "@/lib/settings/actions";
+import { permitPrefix } from "@/lib/settings/queries";
 import { DEFAULT_CHAIN_RULES } from "@/lib/rules/chain";
 import { requireDatabase, TEST_PASSWORD } from "../support/db";
 import { asActor, createOfficer, createSubmittedApplication, createTeam } from "./support";
@@ -74,28 +76,44 @@ describe("concurrent approvals", () => {
 
 describe("permit numbers", () => {
   it(
-    "stay unique and gap-free when different applications are approved in parallel",
+    "stay unique and gap-free, with the prefix in force, when applications are approved in parallel while an admin changes the prefix",
     { timeout: 120_000 },
     async () => {
       const team = await createTeam();
-      const apps = [];
-      for (let i = 0; i < 12; i++)
+      const admin = asActor(await createOfficer({ departmentId: null, roles: ["admin"] }));
+      const before = await permitPrefix();
+      onTestFinished(() => updateSettings(admin, { permitPrefix: before }).then(() => undefined));
+      await updateSettings(admin, { permitPrefix: "LAB" });
+      const apps: Application[] = [];
+      for (let i = 0; i < 13; i++)
         apps.push((await createSubmittedApplication({ applicant: team.instructor, tier: 1 })).application);
-      const results = await Promise.all(
-        apps.map((a) =>
-          decide(asActor(team.reviewer), a.id, {
-            kind: "approve",
-            expectedVersion: a.version,
-            password: TEST_PASSWORD,
-            confirmedRequirements: [],
-            extraConditions: [],
-          }),
-        ),
-      );
-      const numbers = results.map((r) => r.permit!.number);
+      const approve = (a: Application) =>
+        decide(asActor(team.reviewer), a.id, {
+          kind: "approve",
+          expectedVersion: a.version,
+          password: TEST_PASSWORD,
+          confirmedRequirements: [],
+          extraConditions: [],
+        });
+      // Twelve approvals race each other and, in the middle of them, the change of prefix.
+      const [results] = await Promise.all([
+        Promise.all(apps.slice(0, 12).map(approve)),
+        new Promise((resolve) => setImmediate(resolve)).then(() => updateSettings(admin, { permitPrefix: "LAB2" })),
+      ]);
+      // One more after the change has committed: it must carry the new prefix.
+      results.push(await approve(apps[12]));
+
+      const issued = results.map((r) => r.permit!).sort((a, b) => a.seq - b.seq);
+      const numbers = issued.map((p) => p.number);
       expect(new Set(numbers).size).toBe(numbers.length);
-      for (const n of numbers) expect(n).toMatch(/^AW-\d{4}-\d{4}$/);
-      const seqs = results.map((r) => r.permit!.seq).sort((a, b) => a - b);
+      for (const p of issued)
+        expect(p.number).toMatch(new RegExp(`^LAB2?-${p.year}-${String(p.seq).padStart(4, "0")}$`));
+      // The prefix is read while the year's counter row is locked, so in number order the old prefix
+      // never follows the new one.
+      const prefixes = issued.map((p) => p.number.split("-")[0]);
+      expect(prefixes.slice(prefixes.indexOf("LAB2")).every((x) => x === "LAB2")).toBe(true);
+      expect(prefixes.at(-1)).toBe("LAB2");
+      const seqs = issued.map((p) => p.seq);
       // Consecutive: nothing else issued permits while this batch ran (test files run one at a time).
       expect(seqs.at(-1)! - seqs[0] + 1).toBe(seqs.length);
       const year = results[0].permit!.year;
@@ -122,6 +140,6 @@ describe("permit numbers", () => {
     ).rejects.toThrow("rolled back");
     const next = await getDb().transaction((tx) => nextPermitNumber(tx, year));
     expect(next.seq).toBe(first.seq + 1);
-    expect(next.number).toBe(`AW-2099-${String(first.seq + 1).padStart(4, "0")}`);
+    expect(next.number).toBe(`${await permitPrefix()}-2099-${String(first.seq + 1).padStart(4, "0")}`);
   });
 });

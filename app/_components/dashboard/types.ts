@@ -22,7 +22,7 @@ export type OpenApplicationSummary = {
 
 export type ExpiringPermitSummary = {
   id: string;
-  /** AW-YYYY-NNNN */
+  /** PREFIX-YYYY-NNNN (prefix from the institution settings, default HV) */
   number: string;
   title: string;
   room?: string | null;

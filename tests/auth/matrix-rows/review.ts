@@ -162,4 +162,13 @@ export const REVIEW_ROWS: MatrixRow[] = [
     body: (c) => ({ decisionId: c.data.decisionId, body: "Measured again: 9.4 mm." }),
     expect: { anonymous: 401, instructor: 201, reviewer: 404, safety_officer: 404, admin: 403 },
   },
+  // Institution settings (the permit number prefix), edited on the rules page.
+  { route: "/api/admin/settings", method: "GET", expect: adminOnly(200, 401, 403) },
+  {
+    route: "/api/admin/settings",
+    method: "PATCH",
+    // The default prefix again: permit numbers in other tests keep HV.
+    body: () => ({ permitPrefix: "HV" }),
+    expect: adminOnly(200, 401, 403),
+  },
 ];

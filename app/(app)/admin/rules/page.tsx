@@ -11,7 +11,9 @@ import {
   listRuleSets,
   type RuleSetHistoryRow,
 } from "@/lib/rules/queries";
-import { ChainRulesForm, ReminderForm, TierRulesForm } from "./rules-forms";
+import { institutionToday } from "@/lib/permits/queries";
+import { editableSettings } from "@/lib/settings/queries";
+import { ChainRulesForm, PermitPrefixForm, ReminderForm, TierRulesForm } from "./rules-forms";
 
 export const metadata: Metadata = { title: "Rules" };
 
@@ -38,19 +40,22 @@ function History({ rows, builtIn }: { rows: RuleSetHistoryRow[]; builtIn: string
 
 export default async function AdminRulesPage() {
   await requirePageUser("admin.rules", "/admin/rules");
-  const [chain, tier, reminders, chainHistory, tierHistory, reminderHistory] = await Promise.all([
+  const [chain, tier, reminders, chainHistory, tierHistory, reminderHistory, settings, today] = await Promise.all([
     currentChainRules(),
     currentTierRuleSet(),
     currentReminderRules(),
     listRuleSets("chain"),
     listRuleSets("tier"),
     listRuleSets("reminders"),
+    editableSettings(),
+    institutionToday(),
   ]);
+  const year = Number(today.slice(0, 4));
   return (
     <>
       <PageHeader
         title="Rules"
-        description="Who reviews each tier, how long its permits last, the engine's tier thresholds and the reminder schedule. Each change is a new version; an application keeps the chain rules it was submitted under."
+        description="Who reviews each tier, how long its permits last, the engine's tier thresholds, the reminder schedule and how permits are numbered. Each rule change is a new version; an application keeps the chain rules it was submitted under."
       />
       <div className="flex flex-col gap-6">
         <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_20rem]">
@@ -82,6 +87,19 @@ export default async function AdminRulesPage() {
           </Card>
           <Card title="Reminder history">
             <History rows={reminderHistory} builtIn="30, 7, 1 and 0 days" />
+          </Card>
+        </div>
+
+        <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_20rem]">
+          <Card
+            title="Permit numbers"
+            description="Permits are numbered PREFIX-YEAR-NNNN, counting from 0001 each year without gaps. A new prefix applies to permits issued from then on; issued permits keep their numbers and the year's count runs on."
+          >
+            <p className="mb-4 text-sm text-stone-700">
+              The next permit issued this year is numbered{" "}
+              <span className="figure font-medium text-stone-900">{`${settings.permitPrefix}-${year}-NNNN`}</span>.
+            </p>
+            <PermitPrefixForm prefix={settings.permitPrefix} year={year} />
           </Card>
         </div>
 

@@ -8,8 +8,9 @@ import { Field, FieldShell, controlClasses } from "@/app/_components/field";
 import { ApiError, apiFetch } from "@/lib/client/api";
 import type { ChainRules, Requirement, StepRole } from "@/lib/rules/chain";
 
-// The admin's three rule forms. Each adopts a new version through POST /api/admin/rules; the server
-// validates again and names the field of any problem.
+// The admin's three rule forms, and the permit number prefix. Each rule form adopts a new version
+// through POST /api/admin/rules; the prefix goes to PATCH /api/admin/settings. The server validates
+// again and names the field of any problem.
 
 type Status = { tone: "success" | "error"; text: string; issues?: { path: string; message: string }[] } | null;
 
@@ -276,6 +277,56 @@ export function TierRulesForm({ rulesJson }: { rulesJson: string }) {
       <Field label="Note for the record" name="tier-note" value={note} onChange={(e) => setNote(e.target.value)} />
       <Button type="submit" disabled={busy} className="self-start">
         {busy ? "Adopting…" : "Adopt these thresholds"}
+      </Button>
+    </form>
+  );
+}
+
+export function PermitPrefixForm({ prefix, year }: { prefix: string; year: number }) {
+  const router = useRouter();
+  const [value, setValue] = useState(prefix);
+  const [status, setStatus] = useState<Status>(null);
+  const [busy, setBusy] = useState(false);
+
+  async function submit(event: React.FormEvent) {
+    event.preventDefault();
+    setBusy(true);
+    try {
+      const { settings } = await apiFetch<{ settings: { permitPrefix: string } }>("/api/admin/settings", {
+        method: "PATCH",
+        body: { permitPrefix: value },
+      });
+      setStatus({ tone: "success", text: `New permits are numbered ${settings.permitPrefix}-${year}-NNNN.` });
+      router.refresh();
+    } catch (e) {
+      setStatus(
+        e instanceof ApiError
+          ? { tone: "error", text: e.message, issues: e.issues }
+          : { tone: "error", text: "Nothing was changed." },
+      );
+    }
+    setBusy(false);
+  }
+
+  return (
+    <form onSubmit={submit} noValidate className="flex flex-col gap-4">
+      <StatusBox status={status} />
+      <Field
+        label="Prefix"
+        name="permit-prefix"
+        value={value}
+        // Upper case as typed: the server accepts only A–Z and 0–9.
+        onChange={(e) => setValue(e.target.value.toUpperCase())}
+        maxLength={6}
+        autoComplete="off"
+        spellCheck={false}
+        hint={`1 to 6 upper-case letters or digits, starting with a letter. Example: ${value || "HV"}-${year}-0001.`}
+        error={status?.issues?.find((i) => i.path.startsWith("permitPrefix"))?.message}
+        figure
+        className="max-w-40"
+      />
+      <Button type="submit" disabled={busy} className="self-start">
+        {busy ? "Saving…" : "Save the prefix"}
       </Button>
     </form>
   );
