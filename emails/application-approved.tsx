@@ -1,4 +1,4 @@
-import { appLink, formatDay, tierWords, type EmailBuilder } from "./context";
+import { appLink, formatDay, tierFact, type EmailBuilder } from "./context";
 
 // To the permit holder: the application is approved and the permit is issued. The permit PDF and a
 // calendar file with the validity window are attached (lib/mail/compose.ts).
@@ -18,7 +18,7 @@ export const applicationApprovedEmail: EmailBuilder<"application_approved"> = (d
         { label: "Application", value: data.title },
         { label: "Valid from", value: formatDay(data.validFrom) },
         { label: "Valid until", value: `${formatDay(data.validTo)} (the end of that day)` },
-        ...(typeof data.tier === "number" ? [{ label: "Hazard", value: tierWords(data.tier) }] : []),
+        ...(typeof data.tier === "number" ? [tierFact(data.tier)] : []),
         ...(data.room ? [{ label: "Room", value: data.room }] : []),
       ],
     },
@@ -30,7 +30,7 @@ export const applicationApprovedEmail: EmailBuilder<"application_approved"> = (d
       type: "text",
       text: "The attached calendar file adds the validity window to your calendar. Benchclear reminds you before the permit ends.",
     },
-    { type: "caution" },
+    { type: "about-figures" },
   ],
   reason: "You get this e-mail because you hold this permit in Benchclear.",
 });

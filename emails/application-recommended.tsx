@@ -1,4 +1,4 @@
-import { appLink, tierWords, type EmailBuilder } from "./context";
+import { appLink, tierFact, type EmailBuilder } from "./context";
 
 // To the safety officers: a reviewer recommended an application and it waits for the final decision.
 export const applicationRecommendedEmail: EmailBuilder<"application_recommended"> = (data, ctx) => ({
@@ -15,7 +15,7 @@ export const applicationRecommendedEmail: EmailBuilder<"application_recommended"
       rows: [
         { label: "Application", value: data.title },
         { label: "Recommended by", value: data.reviewerName },
-        { label: "Hazard", value: tierWords(data.tier) },
+        tierFact(data.tier),
       ],
     },
     { type: "action", label: "Open the application", url: appLink(ctx, `/applications/${data.applicationId}`) },

@@ -12,7 +12,7 @@ export const applicationRejectedEmail: EmailBuilder<"application_rejected"> = (d
     },
     { type: "quote", label: `Reasons given by ${data.signerName}`, text: data.comment || "(no reason given)" },
     { type: "action", label: "Open the application", url: appLink(ctx, `/applications/${data.applicationId}`) },
-    { type: "caution" },
+    { type: "about-figures" },
   ],
   reason: "You get this e-mail because you submitted this application in Benchclear.",
 });

@@ -1,4 +1,4 @@
-import { appLink, tierWords, type EmailBuilder } from "./context";
+import { appLink, tierFact, type EmailBuilder } from "./context";
 
 // To the reviewers of the application's department: an application waits for their review.
 export const applicationSubmittedEmail: EmailBuilder<"application_submitted"> = (data, ctx) => ({
@@ -15,7 +15,7 @@ export const applicationSubmittedEmail: EmailBuilder<"application_submitted"> = 
       rows: [
         { label: "Application", value: data.title },
         { label: "Applicant", value: data.applicantName },
-        { label: "Hazard", value: tierWords(data.tier) },
+        tierFact(data.tier),
         ...(data.departmentName ? [{ label: "Department", value: data.departmentName }] : []),
       ],
     },

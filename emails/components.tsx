@@ -1,4 +1,8 @@
 import type { CSSProperties, ReactNode } from "react";
+import type { Tier } from "@/lib/hazard/types";
+import { ABOUT_FIGURES_TEXT, ABOUT_FIGURES_TITLE, INFO_SYMBOL } from "@/lib/about-figures";
+import { TIER_COLOURS } from "@/lib/pdf/theme";
+import { TIER_GLYPH_VIEWBOX, TIER_GLYPHS } from "@/lib/tier-glyph";
 
 // The building blocks every Benchclear e-mail is made of, and the one frame they sit in. An e-mail is
 // described once as content (heading, blocks, the reason the recipient gets it); <EmailDocument>
@@ -10,11 +14,11 @@ export type EmailTone = "info" | "success" | "warn" | "danger";
 
 export type EmailBlock =
   | { type: "text"; text: string }
-  | { type: "facts"; rows: { label: string; value: string }[] }
+  | { type: "facts"; rows: { label: string; value: string; tier?: Tier }[] }
   | { type: "quote"; label: string; text: string }
   | { type: "list"; label: string; items: string[] }
   | { type: "action"; label: string; url: string }
-  | { type: "caution" };
+  | { type: "about-figures" };
 
 export type EmailContent = {
   /** The line mail clients show after the subject; never shown in the body. */
@@ -28,9 +32,8 @@ export type EmailContent = {
 
 export type EmailFrame = { institutionName: string; appUrl: string };
 
-// The standard caution (app/_components/caution.tsx), word for word, for mails about permits.
-export const EMAIL_CAUTION =
-  "Caution. The figures are an engineering estimate. Local codes, your institution’s rules and a qualified person’s judgement govern. De-energise and ground a set-up before anyone touches it.";
+// The note about the figures (lib/about-figures.ts), word for word, for mails about permits.
+export const EMAIL_ABOUT_FIGURES = `${ABOUT_FIGURES_TITLE}: ${ABOUT_FIGURES_TEXT}`;
 
 const C = {
   page: "#f5f5f4",
@@ -102,6 +105,37 @@ function Mark() {
   );
 }
 
+// The tier glyph (lib/tier-glyph.ts) inline, before the words "Tier N · label". Clients that drop
+// inline SVG still show the words, which carry the tier on their own.
+function TierGlyph({ tier }: { tier: Tier }) {
+  const g = TIER_GLYPHS[tier];
+  const colour = TIER_COLOURS[tier].swatch;
+  return (
+    <svg
+      viewBox={TIER_GLYPH_VIEWBOX}
+      width="16"
+      height="16"
+      aria-hidden="true"
+      style={{ display: "inline-block", verticalAlign: "-3px", marginRight: "6px" }}
+    >
+      {g.ring && <path d={g.ring.d} fill="none" stroke={colour} strokeWidth={g.ring.stroke} />}
+      {g.solid ? (
+        <path d={g.shape} fill={colour} />
+      ) : (
+        <path d={g.shape} fill="none" stroke={colour} strokeWidth={g.shapeStroke} strokeLinejoin="round" />
+      )}
+      <path
+        d={g.numeral}
+        fill="none"
+        stroke={g.solid ? "#ffffff" : colour}
+        strokeWidth={g.numeralStroke}
+        strokeLinecap="round"
+        strokeLinejoin="round"
+      />
+    </svg>
+  );
+}
+
 function Block({ block }: { block: EmailBlock }): ReactNode {
   switch (block.type) {
     case "text":
@@ -131,6 +165,7 @@ function Block({ block }: { block: EmailBlock }): ReactNode {
                 <td
                   style={{ padding: "6px 0", color: C.text, verticalAlign: "top", borderTop: `1px solid ${C.border}` }}
                 >
+                  {row.tier !== undefined && <TierGlyph tier={row.tier} />}
                   {row.value}
                 </td>
               </tr>
@@ -194,21 +229,43 @@ function Block({ block }: { block: EmailBlock }): ReactNode {
           </tbody>
         </table>
       );
-    case "caution":
+    case "about-figures":
+      // A note in the interface's ink with the information symbol, never styled as a hazard sign.
       return (
-        <p
+        <table
+          role="note"
+          aria-label={ABOUT_FIGURES_TITLE}
+          cellPadding={0}
+          cellSpacing={0}
           style={{
+            width: "100%",
+            borderCollapse: "collapse",
             margin: "0 0 16px",
-            padding: "10px 12px",
             border: `1px solid ${C.border}`,
-            borderLeft: "4px solid #44403c",
-            fontSize: "13px",
-            lineHeight: "19px",
-            color: "#44403c",
+            borderLeft: `4px solid ${C.ink}`,
           }}
         >
-          {EMAIL_CAUTION}
-        </p>
+          <tbody>
+            <tr>
+              <td style={{ width: "20px", padding: "10px 0 10px 12px", verticalAlign: "top" }}>
+                <svg viewBox={INFO_SYMBOL.viewBox} width="18" height="18" aria-hidden="true">
+                  <path d={INFO_SYMBOL.ring} fill="none" stroke={C.ink} strokeWidth={INFO_SYMBOL.stroke} />
+                  <path
+                    d={INFO_SYMBOL.stem}
+                    fill="none"
+                    stroke={C.ink}
+                    strokeWidth={INFO_SYMBOL.stroke * 1.2}
+                    strokeLinecap="round"
+                  />
+                  <path d={INFO_SYMBOL.dot} fill={C.ink} />
+                </svg>
+              </td>
+              <td style={{ padding: "10px 12px", fontSize: "13px", lineHeight: "19px", color: "#44403c" }}>
+                <strong style={{ color: C.text }}>{ABOUT_FIGURES_TITLE}:</strong> {ABOUT_FIGURES_TEXT}
+              </td>
+            </tr>
+          </tbody>
+        </table>
       );
   }
 }
@@ -319,8 +376,8 @@ export function textBody(content: EmailContent, frame: EmailFrame): string {
       case "action":
         out.push(`${block.label}: ${block.url}`, "");
         break;
-      case "caution":
-        out.push(EMAIL_CAUTION, "");
+      case "about-figures":
+        out.push(EMAIL_ABOUT_FIGURES, "");
         break;
     }
   }

@@ -1,4 +1,5 @@
 import { TIER_LABELS } from "@/lib/hazard";
+import type { Tier } from "@/lib/hazard/types";
 import type { MailMessage } from "@/lib/mail/outbox";
 import type { EmailContent, EmailFrame } from "./components";
 
@@ -50,6 +51,12 @@ export function formatInstant(iso: string, timeZone: string): string {
   } catch {
     return new Intl.DateTimeFormat("en-GB", { ...options, timeZone: "UTC" }).format(date);
   }
+}
+
+/** The "Hazard" fact of an e-mail: the tier glyph and the tier in words. */
+export function tierFact(tier: number): { label: string; value: string; tier?: Tier } {
+  const known = Number.isInteger(tier) && tier >= 0 && tier <= 4;
+  return { label: "Hazard", value: tierWords(tier), ...(known ? { tier: tier as Tier } : {}) };
 }
 
 /** "Tier 2 · Reflex injury": a tier is never a bare number (product.md). */

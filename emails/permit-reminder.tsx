@@ -28,7 +28,7 @@ export const permitReminderEmail: EmailBuilder<"permit_reminder"> = (data, ctx) 
           ],
         },
         { type: "action", label: "Open the permit", url: permitUrl },
-        { type: "caution" },
+        { type: "about-figures" },
       ],
       reason: forReviewer
         ? "You get this e-mail because you signed the review of this permit's application in Benchclear."

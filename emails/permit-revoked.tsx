@@ -15,7 +15,7 @@ export const permitRevokedEmail: EmailBuilder<"permit_revoked"> = (data, ctx) =>
       ? [{ type: "facts" as const, rows: [{ label: "Revoked", value: formatInstant(data.revokedAt, ctx.timeZone) }] }]
       : []),
     { type: "action", label: "Open the permit", url: appLink(ctx, `/permits/${data.permitId}`) },
-    { type: "caution" },
+    { type: "about-figures" },
   ],
   reason:
     ctx.recipient.relation === "holder"

@@ -1,8 +1,8 @@
 import type { ReactNode } from "react";
-import { Caution } from "@/app/_components/caution";
+import { AboutFigures } from "@/app/_components/about-figures";
 import { Wordmark } from "@/app/_components/logo";
 
-// The frame for signing in and accepting an invitation: no navigation, the caution below.
+// The frame for signing in and accepting an invitation: no navigation, the note about the figures below.
 export default function AuthLayout({ children }: { children: ReactNode }) {
   return (
     <div className="flex min-h-dvh flex-col bg-stone-50">
@@ -13,7 +13,7 @@ export default function AuthLayout({ children }: { children: ReactNode }) {
         {children}
       </main>
       <footer className="mx-auto w-full max-w-2xl px-4 pb-6">
-        <Caution variant="compact" />
+        <AboutFigures variant="compact" />
       </footer>
     </div>
   );

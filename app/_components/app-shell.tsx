@@ -1,6 +1,6 @@
 import Link from "next/link";
 import type { ReactNode } from "react";
-import { Caution } from "./caution";
+import { AboutFigures } from "./about-figures";
 import { Wordmark } from "./logo";
 import { Nav } from "./nav";
 import type { NavItem } from "./nav-items";
@@ -13,7 +13,7 @@ type AppShellProps = {
   children: ReactNode;
 };
 
-/** The signed-in frame: skip link, header with mark, navigation and user menu; main; footer caution. */
+/** The signed-in frame: skip link, header with mark, navigation and user menu; main; the note about the figures in the footer. */
 export function AppShell({ navItems, user, children }: AppShellProps) {
   return (
     <div className="flex min-h-dvh flex-col">
@@ -46,7 +46,7 @@ export function AppShell({ navItems, user, children }: AppShellProps) {
 
       <footer className="border-t border-stone-200 bg-white">
         <div className="mx-auto flex max-w-shell flex-col gap-2 px-4 py-4 sm:px-6 md:flex-row md:items-start md:justify-between md:gap-8">
-          <Caution variant="compact" className="max-w-3xl" />
+          <AboutFigures variant="compact" className="max-w-3xl" />
           <p className="shrink-0 text-xs leading-5 text-stone-500">
             Benchclear advises; it does not replace a qualified person.
           </p>

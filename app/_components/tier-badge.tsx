@@ -1,5 +1,6 @@
 import { cx } from "./cx";
 import { TIER_CLASSES, TIER_LABELS, type Tier } from "./tier";
+import { TierGlyph } from "./tier-glyph";
 
 type TierBadgeProps = {
   tier: Tier;
@@ -11,8 +12,9 @@ type TierBadgeProps = {
   className?: string;
 };
 
-// The tier in colour, as a small meter (tier N fills N of four bars) and in words. The meter is a
-// second cue that does not depend on colour; the words are the one that counts.
+// The tier in colour, as its glyph (the numeral in a shape that gains sides and weight with the tier)
+// and in words. The glyph is a second cue that does not depend on colour; the words are the one
+// that counts.
 export function TierBadge({ tier, count, countNoun = "applications", size = "md", className }: TierBadgeProps) {
   const c = TIER_CLASSES[tier];
   return (
@@ -26,7 +28,7 @@ export function TierBadge({ tier, count, countNoun = "applications", size = "md"
         className,
       )}
     >
-      <TierMeter tier={tier} />
+      <TierGlyph tier={tier} className={size === "sm" ? "size-3.5" : "size-4"} />
       <span>
         Tier {tier} · {TIER_LABELS[tier]}
       </span>
@@ -37,19 +39,6 @@ export function TierBadge({ tier, count, countNoun = "applications", size = "md"
           <span className="sr-only"> {countNoun}</span>
         </span>
       )}
-    </span>
-  );
-}
-
-const BAR_HEIGHTS = ["h-1.5", "h-2", "h-2.5", "h-3"] as const;
-
-export function TierMeter({ tier, className }: { tier: Tier; className?: string }) {
-  const c = TIER_CLASSES[tier];
-  return (
-    <span aria-hidden="true" className={cx("inline-flex h-3 items-end gap-px", className)}>
-      {BAR_HEIGHTS.map((h, i) => (
-        <span key={h} className={cx("w-[3px] rounded-[1px]", h, i < tier ? c.swatch : "bg-current opacity-25")} />
-      ))}
     </span>
   );
 }

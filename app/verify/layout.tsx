@@ -1,9 +1,9 @@
 import type { ReactNode } from "react";
-import { Caution } from "@/app/_components/caution";
+import { AboutFigures } from "@/app/_components/about-figures";
 import { Wordmark } from "@/app/_components/logo";
 
 // The public frame of the permit check that a posted permit's QR code opens: phone first, no
-// navigation and no sign-in, the caution below.
+// navigation and no sign-in, the note about the figures below.
 export default function VerifyLayout({ children }: { children: ReactNode }) {
   return (
     <div className="flex min-h-dvh flex-col bg-stone-50">
@@ -17,7 +17,7 @@ export default function VerifyLayout({ children }: { children: ReactNode }) {
         {children}
       </main>
       <footer className="mx-auto w-full max-w-md px-4 pb-6">
-        <Caution variant="compact" />
+        <AboutFigures variant="compact" />
       </footer>
     </div>
   );

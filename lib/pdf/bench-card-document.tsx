@@ -2,9 +2,10 @@ import { Document, Page, Text, View } from "@react-pdf/renderer";
 import { formatQuantity } from "@/lib/hazard";
 import { dischargeSteps, printDay } from "./content";
 import {
-  CautionBox,
+  AboutFiguresBox,
   EmergencyContacts,
   EndedBanner,
+  HazardHeader,
   NumberedSteps,
   Overprint,
   QrBlock,
@@ -56,6 +57,12 @@ export function BenchCardDocument({
         <View
           style={{ position: "absolute", top: 0, left: 0, right: 0, height: 10, backgroundColor: tierColours.swatch }}
         />
+
+        {permit.tier > 0 && (
+          <View style={{ marginBottom: 10 * scale }}>
+            <HazardHeader tier={permit.tier} wordSize={26 * Math.max(scale, 0.8)} />
+          </View>
+        )}
 
         <View style={{ flexDirection: "row" }}>
           <View style={{ flex: 1, paddingRight: 14 }}>
@@ -130,10 +137,10 @@ export function BenchCardDocument({
           </View>
         </View>
 
-        {/* Pushes the caution to the foot of the page while the content above leaves room. */}
+        {/* Pushes the note about the figures to the foot of the page while the content above leaves room. */}
         <View style={{ flexGrow: 1 }} />
         <View style={{ marginTop: 12 }}>
-          <CautionBox fontSize={9.5} />
+          <AboutFiguresBox fontSize={9.5} />
           <Text style={[s.mono, { fontSize: 7.5, color: INK.muted, marginTop: 4 }]}>{permit.verificationUrl}</Text>
         </View>
 

@@ -1,8 +1,10 @@
-import { Image, StyleSheet, Text, View } from "@react-pdf/renderer";
-import { CAUTION_POINTS } from "@/lib/caution";
+import { Image, Path, StyleSheet, Svg, Text, View } from "@react-pdf/renderer";
+import { ABOUT_FIGURES_POINTS, ABOUT_FIGURES_TITLE, INFO_SYMBOL } from "@/lib/about-figures";
 import type { PermitState } from "@/db/schema/permits";
 import type { EmergencyContact } from "@/db/schema/settings";
 import type { Tier } from "@/lib/hazard";
+import { hazardHeader, SAFETY_ALERT_SYMBOL } from "@/lib/signal-word";
+import { TIER_GLYPH_VIEWBOX, TIER_GLYPHS } from "@/lib/tier-glyph";
 import { printDay } from "./content";
 import { MONO, SANS } from "./fonts";
 import { INK, STATE_LOOK, TIER_COLOURS } from "./theme";
@@ -49,24 +51,27 @@ export function StatePill({ state, size = 16 }: { state: PermitState; size?: num
   );
 }
 
-/** Four bars, tier N filling N of them: a second cue beside the colour, as in the app's badge. */
-export function TierMeter({ tier, height = 22 }: { tier: Tier; height?: number }) {
-  const c = TIER_COLOURS[tier];
+/** The tier glyph (lib/tier-glyph.ts, the same drawing as on screen and in e-mails), `size` points square. */
+export function TierGlyph({ tier, size = 22 }: { tier: Tier; size?: number }) {
+  const g = TIER_GLYPHS[tier];
+  const colour = TIER_COLOURS[tier].swatch;
   return (
-    <View style={{ flexDirection: "row", alignItems: "flex-end", height }}>
-      {[0.55, 0.7, 0.85, 1].map((h, i) => (
-        <View
-          key={h}
-          style={{
-            width: height * 0.24,
-            height: height * h,
-            marginRight: height * 0.1,
-            borderRadius: 1,
-            backgroundColor: i < tier ? c.swatch : c.border,
-          }}
-        />
-      ))}
-    </View>
+    <Svg viewBox={TIER_GLYPH_VIEWBOX} style={{ width: size, height: size }}>
+      {g.ring && <Path d={g.ring.d} fill="none" stroke={colour} strokeWidth={g.ring.stroke} />}
+      {g.solid ? (
+        <Path d={g.shape} fill={colour} />
+      ) : (
+        <Path d={g.shape} fill="none" stroke={colour} strokeWidth={g.shapeStroke} strokeLinejoin="round" />
+      )}
+      <Path
+        d={g.numeral}
+        fill="none"
+        stroke={g.solid ? "#ffffff" : colour}
+        strokeWidth={g.numeralStroke}
+        strokeLinecap="round"
+        strokeLinejoin="round"
+      />
+    </Svg>
   );
 }
 
@@ -96,7 +101,7 @@ export function TierBlock({
       }}
     >
       <View style={{ flexDirection: "row", alignItems: "center" }}>
-        <TierMeter tier={tier} height={large ? 22 : 16} />
+        <TierGlyph tier={tier} size={large ? 24 : 18} />
         <Text style={{ marginLeft: 6, fontSize: large ? 22 : 16, fontWeight: 700, color: c.text }}>Tier {tier}</Text>
         <Text style={{ marginLeft: 8, fontSize: large ? 18 : 13, color: c.text }}>· {label}</Text>
       </View>
@@ -165,24 +170,86 @@ export function NumberedSteps({ steps, fontSize = 11 }: { steps: string[]; fontS
   );
 }
 
-export function CautionBox({ fontSize = 9 }: { fontSize?: number }) {
+/** The deferral note (lib/about-figures.ts) with its information symbol: a note, never a hazard sign. */
+export function AboutFiguresBox({ fontSize = 9 }: { fontSize?: number }) {
+  const icon = fontSize * 1.35;
   return (
     <View
       wrap={false}
       style={{
+        flexDirection: "row",
         borderWidth: 0.75,
         borderColor: INK.rule,
         borderLeftWidth: 4,
-        borderLeftColor: INK.muted,
+        borderLeftColor: INK.accent,
         backgroundColor: "#ffffff",
         paddingVertical: 6,
         paddingHorizontal: 9,
       }}
     >
-      <Text style={{ fontSize, color: INK.body }}>
-        <Text style={{ fontWeight: 700, color: INK.text }}>Caution. </Text>
-        {CAUTION_POINTS[0]} {CAUTION_POINTS[1]}{" "}
-        <Text style={{ fontWeight: 700, color: INK.text }}>{CAUTION_POINTS[2]}</Text>
+      <Svg viewBox={INFO_SYMBOL.viewBox} style={{ width: icon, height: icon, marginRight: 6 }}>
+        <Path d={INFO_SYMBOL.ring} fill="none" stroke={INK.accent} strokeWidth={INFO_SYMBOL.stroke} />
+        <Path
+          d={INFO_SYMBOL.stem}
+          fill="none"
+          stroke={INK.accent}
+          strokeWidth={INFO_SYMBOL.stroke * 1.2}
+          strokeLinecap="round"
+        />
+        <Path d={INFO_SYMBOL.dot} fill={INK.accent} />
+      </Svg>
+      <Text style={{ flex: 1, fontSize, color: INK.body }}>
+        <Text style={{ fontWeight: 700, color: INK.text }}>{ABOUT_FIGURES_TITLE}. </Text>
+        {ABOUT_FIGURES_POINTS[0]} {ABOUT_FIGURES_POINTS[1]}{" "}
+        <Text style={{ fontWeight: 700, color: INK.text }}>{ABOUT_FIGURES_POINTS[2]}</Text>
+      </Text>
+    </View>
+  );
+}
+
+/**
+ * The hazard header (lib/signal-word.ts): the safety alert symbol and the signal word on the
+ * standard's colour, then the hazard, what it does and how to avoid it. Nothing for tier 0.
+ */
+export function HazardHeader({ tier, wordSize = 22 }: { tier: Tier; wordSize?: number }) {
+  const header = hazardHeader(tier);
+  if (!header) return null;
+  const symbol = wordSize * 1.05;
+  return (
+    <View wrap={false} style={{ borderWidth: 1.5, borderColor: "#000000", borderRadius: 2 }}>
+      <View
+        style={{
+          flexDirection: "row",
+          alignItems: "center",
+          justifyContent: "center",
+          backgroundColor: header.panel,
+          paddingVertical: wordSize * 0.22,
+        }}
+      >
+        <Svg
+          viewBox={SAFETY_ALERT_SYMBOL.viewBox}
+          style={{ width: symbol, height: symbol, marginRight: wordSize * 0.35 }}
+        >
+          <Path d={SAFETY_ALERT_SYMBOL.triangle} fill={header.ink} />
+          <Path d={SAFETY_ALERT_SYMBOL.bar} fill={header.panel} />
+          <Path d={SAFETY_ALERT_SYMBOL.dot} fill={header.panel} />
+        </Svg>
+        <Text style={{ fontSize: wordSize, fontWeight: 700, color: header.ink, letterSpacing: wordSize * 0.08 }}>
+          {header.word}
+        </Text>
+      </View>
+      <Text
+        style={{
+          backgroundColor: "#ffffff",
+          color: "#000000",
+          fontSize: wordSize * 0.5,
+          fontWeight: 700,
+          paddingVertical: wordSize * 0.22,
+          paddingHorizontal: wordSize * 0.4,
+          textAlign: "center",
+        }}
+      >
+        {header.message}
       </Text>
     </View>
   );

@@ -11,9 +11,10 @@ import {
   type SourceLine,
 } from "./content";
 import {
-  CautionBox,
+  AboutFiguresBox,
   EmergencyContacts,
   EndedBanner,
+  HazardHeader,
   NumberedSteps,
   Overprint,
   QrBlock,
@@ -30,7 +31,7 @@ import type { PaperSize, PrintData } from "./types";
 // details (sources, controls, signatures) follow. Large type for what is read from a step away.
 
 const PAGE_PADDING = 30;
-/** Room kept free at the foot of every page for the caution and the page line (points). */
+/** Room kept free at the foot of every page for the note about the figures and the page line (points). */
 const FOOTER_SPACE = 76;
 
 function Label({ children }: { children: string }) {
@@ -168,6 +169,13 @@ export function PermitDocument({ data, size, qr }: { data: PrintData; size: Pape
           fixed
           style={{ position: "absolute", top: 0, left: 0, right: 0, height: 7, backgroundColor: tierColours.swatch }}
         />
+
+        {/* The hazard header (DANGER, WARNING or CAUTION by tier; none for tier 0) opens the permit. */}
+        {permit.tier > 0 && (
+          <View style={{ marginBottom: 10 }}>
+            <HazardHeader tier={permit.tier} wordSize={20} />
+          </View>
+        )}
 
         <View style={{ flexDirection: "row" }}>
           <View style={{ flex: 1, paddingRight: 14 }}>
@@ -320,9 +328,9 @@ export function PermitDocument({ data, size, qr }: { data: PrintData; size: Pape
           </View>
         </Section>
 
-        {/* The caution and the permit's identity on every page, so a loose second sheet still says both. */}
+        {/* The note about the figures and the permit's identity on every page, so a loose second sheet still says both. */}
         <View fixed style={{ position: "absolute", left: PAGE_PADDING, right: PAGE_PADDING, bottom: 16 }}>
-          <CautionBox fontSize={8.5} />
+          <AboutFiguresBox fontSize={8.5} />
           <View style={{ flexDirection: "row", justifyContent: "space-between", marginTop: 4 }}>
             <Text style={{ fontSize: 8, color: INK.muted }}>
               {permit.number} · Tier {permit.tier} · {stateLook.label.toLowerCase()} · valid to{" "}

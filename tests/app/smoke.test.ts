@@ -9,10 +9,11 @@ describe("the production build", () => {
     expect(res.headers.get("location")).toMatch(/\/sign-in$/);
   });
 
-  it("serves the sign-in page with the product name, the caution and security headers", async () => {
+  it("serves the sign-in page with the product name, the note about the figures and security headers", async () => {
     const res = await http("/sign-in");
     expect(res.status).toBe(200);
     expect(res.text).toContain("Sign in to Benchclear");
+    expect(res.text).toContain("About these figures");
     expect(res.text).toContain("engineering estimate");
     expect(res.text).toContain("qualified person");
     const csp = res.headers.get("content-security-policy") ?? "";

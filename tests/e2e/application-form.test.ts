@@ -121,7 +121,7 @@ describe("the six-step application form, in a real browser", () => {
       expect(await energy.textContent()).toContain("E = ½·C·V²");
       expect(await energy.textContent()).toContain("Reached: ≥ 250 mJ → tier 2 (Reflex injury)");
       expect(await energy.textContent()).toMatch(/Source: capacitor discharge guideline/);
-      expect(await page.getByRole("note", { name: "Caution" }).isVisible()).toBe(true);
+      expect(await page.getByRole("note", { name: "About these figures" }).isVisible()).toBe(true);
       await expectNoSeriousViolations(page, "step 3");
 
       await page.getByRole("button", { name: "Next: Controls" }).click();
@@ -199,7 +199,7 @@ describe("the six-step application form, in a real browser", () => {
     const page = await context.newPage();
     await signInWithForm(page, set.instructor.email, TEST_PASSWORD);
     await page.goto("/applications/new");
-    await page.getByLabel("Title").fill("Van de Graaff for the open day");
+    await page.getByLabel("Title").fill("Belt generator for the open day");
     await waitSaved(page);
     const id = new URL(page.url()).pathname.split("/")[2];
     const titleOf = async () => {
@@ -209,18 +209,18 @@ describe("the six-step application form, in a real browser", () => {
         .where(eq(applications.id, id));
       return row.title;
     };
-    expect(await titleOf()).toBe("Van de Graaff for the open day");
+    expect(await titleOf()).toBe("Belt generator for the open day");
 
     // The server cannot be reached: the status says so, the text stays, and it is saved once it can be.
     await page.route("**/api/applications/*/draft", (route) => route.abort("connectionrefused"));
-    await page.getByLabel("Title").fill("Van de Graaff for the open day, hall 2");
+    await page.getByLabel("Title").fill("Belt generator for the open day, hall 2");
     await expect
       .poll(() => page.getByTestId("save-status").textContent(), { timeout: 10_000 })
       .toBe("Not saved — retrying");
-    expect(await page.getByLabel("Title").inputValue()).toBe("Van de Graaff for the open day, hall 2");
+    expect(await page.getByLabel("Title").inputValue()).toBe("Belt generator for the open day, hall 2");
     await page.unroute("**/api/applications/*/draft");
     await waitSaved(page);
-    expect(await titleOf()).toBe("Van de Graaff for the open day, hall 2");
+    expect(await titleOf()).toBe("Belt generator for the open day, hall 2");
 
     // Saved elsewhere meanwhile (another window): 409, then the user keeps their own text.
     const [row] = await getDb().select().from(applications).where(eq(applications.id, id));
@@ -230,16 +230,16 @@ describe("the six-step application form, in a real browser", () => {
       body: { expectedVersion: row.version, step: 1, draft: { event: { title: "From another window" } } },
     });
     expect(elsewhere.status).toBe(200);
-    await page.getByLabel("Title").fill("Van de Graaff for the open day, hall 3");
+    await page.getByLabel("Title").fill("Belt generator for the open day, hall 3");
     await expect
       .poll(() => page.getByTestId("save-status").textContent(), { timeout: 10_000 })
       .toBe("Not saved — changed elsewhere");
     expect(await titleOf()).toBe("From another window");
-    expect(await page.getByLabel("Title").inputValue()).toBe("Van de Graaff for the open day, hall 3");
+    expect(await page.getByLabel("Title").inputValue()).toBe("Belt generator for the open day, hall 3");
     await expectNoSeriousViolations(page, "the conflict message");
     await page.getByRole("button", { name: "Save mine over it" }).click();
     await waitSaved(page);
-    expect(await titleOf()).toBe("Van de Graaff for the open day, hall 3");
+    expect(await titleOf()).toBe("Belt generator for the open day, hall 3");
     await context.close();
   });
 });

@@ -33,7 +33,7 @@ requireDatabase();
 // revokes it; and the daily job's reminder mail reaches the local inbox once when the clock is moved.
 // Every page is checked with axe-core; screenshots of the main screens go to docs/screenshots/.
 
-/** The desktop size the screenshots are taken at, and an iPhone 12–15 class screen in CSS pixels. */
+/** The desktop size the screenshots are taken at, and a common 6.1-inch phone screen in CSS pixels. */
 const DESKTOP = { width: 1280, height: 800 };
 const PHONE = { width: 390, height: 844 };
 
@@ -224,7 +224,7 @@ describe("the whole job, from invitation to reminder, in a real browser", () => 
 
       await next(instructor, "Hazard result", "Step 3 of 6: Hazard result");
       expect(await instructor.getByTestId("tier-result").textContent()).toContain("Tier 2 · Reflex injury");
-      expect(await instructor.getByRole("note", { name: "Caution" }).isVisible()).toBe(true);
+      expect(await instructor.getByRole("note", { name: "About these figures" }).isVisible()).toBe(true);
       await expectAccessible(instructor, "application step 3");
       await screenshot(instructor, "application-step-3-hazard-result");
 
@@ -360,7 +360,7 @@ describe("the whole job, from invitation to reminder, in a real browser", () => 
     await expect
       .poll(() => instructor.locator("main").getByText("Active", { exact: true }).first().isVisible())
       .toBe(true);
-    expect(await instructor.getByRole("note", { name: "Caution" }).first().isVisible()).toBe(true);
+    expect(await instructor.getByRole("note", { name: "About these figures" }).first().isVisible()).toBe(true);
     await expectAccessible(instructor, "/permits/[id]");
     await screenshot(instructor, "permit");
 

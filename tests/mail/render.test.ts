@@ -5,6 +5,7 @@ import { renderEmail, type EmailContext } from "@/emails";
 import { buildCalendar, escapeText, foldLine, permitEvents } from "@/lib/calendar/ics";
 import { headerText, isPlainAddress, outboxMessageId } from "@/lib/mail/headers";
 import { defaultSubject, type MailMessage } from "@/lib/mail/outbox";
+import { TIER_GLYPHS } from "@/lib/tier-glyph";
 
 const ctx: EmailContext = {
   appUrl: "https://permits.aldermere.example",
@@ -15,7 +16,7 @@ const ctx: EmailContext = {
 
 const id = "0b6c1f2e-8f43-4a55-9d0e-5d9a3a1f7c21";
 const permitId = "6f1d2b7a-1c3e-4f5a-8b9c-0d1e2f3a4b5c";
-const title = "Van de Graaff <script>alert(1)</script> & spark gap";
+const title = "Belt generator <script>alert(1)</script> & spark gap";
 
 const MESSAGES: MailMessage[] = [
   {
@@ -109,11 +110,24 @@ describe("e-mail bodies", () => {
     if (message.kind !== "invitation") expect(html).toContain("&lt;script&gt;");
   });
 
-  it("puts the standard caution in mails about a permit's use", () => {
+  it("puts the note about the figures, not a CAUTION sign, in mails about a permit's use", () => {
     for (const kind of ["application_approved", "permit_revoked", "application_rejected"] as const) {
       const m = MESSAGES.find((x) => x.kind === kind)!;
-      expect(renderEmail(m, ctx).text).toContain("De-energise and ground a set-up before anyone touches it.");
+      const { text, html } = renderEmail(m, ctx);
+      expect(text).toContain("About these figures: The figures are an engineering estimate.");
+      expect(text).toContain("De-energise and ground a set-up before anyone touches it.");
+      expect(html).toContain('aria-label="About these figures"');
+      // ANSI Z535.4-2007 §4.14.3: CAUTION means a hazard of minor or moderate injury, not a disclaimer.
+      expect(text).not.toMatch(/caution/i);
     }
+  });
+
+  it("draws the tier glyph beside the tier in words (lib/tier-glyph.ts)", () => {
+    const submitted = MESSAGES.find((x) => x.kind === "application_submitted")!;
+    const { text, html } = renderEmail(submitted, ctx);
+    const tier = (submitted.data as { tier: 0 | 1 | 2 | 3 | 4 }).tier;
+    expect(html).toContain(`d="${TIER_GLYPHS[tier].numeral}"`);
+    expect(text).toContain(`Tier ${tier} · `);
   });
 
   it("tells the holder and the signing reviewer different reasons for the expiry notice", () => {

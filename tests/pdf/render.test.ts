@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { CAUTION_TEXT } from "@/app/_components/caution";
+import { ABOUT_FIGURES_TEXT } from "@/lib/about-figures";
 import { formatQuantity, type Tier } from "@/lib/hazard";
 import { dischargeSteps } from "@/lib/pdf/content";
 import { countPages, renderDocument } from "@/lib/pdf/render";
@@ -31,6 +31,23 @@ const EXPECTED: Record<
   4: { energy: "80.0 kJ", voltage: "20.0 kV", peak: "40.0 A", continuous: "100 mA", timeToSafe: "no bleeder" },
 };
 
+/**
+ * The hazard header by tier, as the issue asks and ANSI Z535.4-2007 §4.14 / ISO 3864-2 define the
+ * words: DANGER "will result in death or serious injury" (tiers 3–4: lethal shock, arc and blast),
+ * WARNING "could result in death or serious injury" (tier 2), CAUTION "could result in minor or
+ * moderate injury" (tier 1), no header for tier 0 (touch-safe).
+ */
+const SIGNAL_WORD: Record<Tier, string | null> = { 0: null, 1: "CAUTION", 2: "WARNING", 3: "DANGER", 4: "DANGER" };
+
+function expectHazardHeader(text: string, tier: Tier) {
+  for (const word of ["DANGER", "WARNING", "CAUTION"]) {
+    if (word === SIGNAL_WORD[tier]) expect(text, `tier ${tier}`).toContain(word);
+    else expect(text, `tier ${tier}`).not.toContain(word);
+  }
+  // The note about the figures is a note, not a sign: "Caution" never titles it.
+  expect(text).not.toMatch(/Caution\./);
+}
+
 /** Page sizes in points: ISO 216 A4 is 210 × 297 mm; US Letter is 8.5 × 11 in (72 pt per inch). */
 const PAGE_POINTS: Record<PaperSize, { width: number; height: number }> = {
   a4: { width: (210 / 25.4) * 72, height: (297 / 25.4) * 72 },
@@ -50,7 +67,7 @@ function expectPageSize(pdf: Buffer, size: PaperSize) {
 describe("the printed permit", () => {
   for (const tier of TIERS) {
     for (const size of SIZES) {
-      it(`prints a tier ${tier} permit on ${size} with its number, figures, signers, caution and a QR code to its page`, async () => {
+      it(`prints a tier ${tier} permit on ${size} with its number, hazard header, figures, signers, the note about the figures and a QR code to its page`, async () => {
         const data = samplePrintData(tier);
         const pdf = await renderDocument(data, "permit", size);
         expect(pdf.subarray(0, 5).toString()).toBe("%PDF-");
@@ -90,7 +107,8 @@ describe("the printed permit", () => {
         // Signed times in UTC (samples.ts: 2026-02-25T09:30Z and 2026-02-26T10:15Z).
         if (tier > 0) expect(text).toContain("2026-02-25 09:30 UTC");
 
-        expect(text).toContain(folded(CAUTION_TEXT));
+        expect(text).toContain(folded(`About these figures. ${ABOUT_FIGURES_TEXT}`));
+        expectHazardHeader(text, tier);
         expect(text).toContain(data.permit.verificationCode);
         expect(decodeQr(pdf)).toBe(data.permit.verificationUrl);
       });
@@ -103,13 +121,13 @@ describe("the printed permit", () => {
     expect(countPages(pdf)).toBe(1);
   });
 
-  it("prints the caution and the permit number on every page of a longer permit", async () => {
+  it("prints the note about the figures and the permit number on every page of a longer permit", async () => {
     const data = samplePrintData(4);
     const pdf = await renderDocument(data, "permit", "letter");
     const pages = pdfPages(pdf);
     expect(pages.length).toBeGreaterThan(1);
     for (const page of pages) {
-      expect(page).toContain(folded(CAUTION_TEXT));
+      expect(page).toContain(folded(`About these figures. ${ABOUT_FIGURES_TEXT}`));
       expect(page).toContain(data.permit.number);
     }
   });
@@ -160,7 +178,8 @@ describe("the bench card", () => {
           expect(text).toContain(contact.label);
           expect(text).toContain(contact.phone);
         }
-        expect(text).toContain(folded(CAUTION_TEXT));
+        expect(text).toContain(folded(`About these figures. ${ABOUT_FIGURES_TEXT}`));
+        expectHazardHeader(text, tier);
         expect(decodeQr(pdf)).toBe(data.permit.verificationUrl);
       });
     }

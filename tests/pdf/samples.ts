@@ -83,7 +83,7 @@ export function sampleContent(
     },
     controls: {
       required: requiredControls(tier).map((c) => ({ code: c.id, text: c.text, confirmed: true, note: "" })),
-      additional: tier >= 3 ? "Perspex screen between the bench and the first row." : "",
+      additional: tier >= 3 ? "Clear acrylic screen between the bench and the first row." : "",
     },
     attachments: [],
     attestation: { accepted: true, text: "I confirm the set-up is as described and the controls are in place." },

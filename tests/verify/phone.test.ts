@@ -12,7 +12,7 @@ requireDatabase();
 // glance (large, in words, with colour), the page fits the screen, it passes axe's serious checks,
 // and a revocation shows on reload. Set BENCHCLEAR_SCREENSHOTS=<dir> to keep screenshots for review.
 
-/** iPhone 12–15 class screen in CSS pixels. */
+/** A common 6.1-inch phone screen in CSS pixels. */
 const PHONE = { width: 390, height: 844 };
 
 describe("the verification page on a phone", () => {

@@ -1,7 +1,7 @@
 import { useId } from "react";
 import type { Assessment, SetupInput, TierRules } from "@/lib/hazard";
 import { formatQuantity } from "@/lib/hazard";
-import { Caution } from "../caution";
+import { AboutFigures } from "../about-figures";
 import { cx } from "../cx";
 import { TIER_CLASSES, type Tier } from "../tier";
 import { TierBadge } from "../tier-badge";
@@ -9,7 +9,7 @@ import { figureRows, type FigureRow } from "./figures";
 
 // The full hazard result: the tier in colour and words, every figure with its formula, inputs and
 // the thresholds it was compared with (each with its source) on expand, the flags, the figures per
-// source, and the caution. No hooks: it renders on the server (apparatus page) and in the form.
+// source, and the note about the figures. No hooks: it renders on the server (apparatus page) and in the form.
 
 const FLAG_TITLES: Record<string, string> = {
   thermal: "Burn hazard",
@@ -138,7 +138,7 @@ export function TierResult({ assessment: a, setup, rules, headingLevel = 2, clas
         </section>
       )}
 
-      <Caution />
+      <AboutFigures />
     </div>
   );
 }

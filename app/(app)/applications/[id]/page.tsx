@@ -5,7 +5,7 @@ import { z } from "zod";
 import { Alert } from "@/app/_components/alert";
 import { ButtonLink } from "@/app/_components/button";
 import { Card } from "@/app/_components/card";
-import { Caution } from "@/app/_components/caution";
+import { AboutFigures } from "@/app/_components/about-figures";
 import { isoDate } from "@/app/_components/format";
 import { PageHeader } from "@/app/_components/page-header";
 import { StateBadge } from "@/app/_components/state-badge";
@@ -118,7 +118,7 @@ export default async function ApplicationPage({
         }
       />
 
-      <Caution className="mb-6" />
+      <AboutFigures className="mb-6" />
 
       {signedKind && (
         // Shown after the panel's redirect; the panel itself is gone once nothing waits for this signer.

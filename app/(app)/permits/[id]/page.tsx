@@ -5,7 +5,7 @@ import { z } from "zod";
 import { Alert } from "@/app/_components/alert";
 import { ButtonLink } from "@/app/_components/button";
 import { Card } from "@/app/_components/card";
-import { Caution } from "@/app/_components/caution";
+import { AboutFigures } from "@/app/_components/about-figures";
 import { formatDate, isoDate } from "@/app/_components/format";
 import { PageHeader } from "@/app/_components/page-header";
 import { Stat, StatList } from "@/app/_components/stat";
@@ -68,7 +68,7 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
           </>
         }
       />
-      <Caution className="mb-6" />
+      <AboutFigures className="mb-6" />
 
       {effectiveState === "revoked" && (
         <Alert tone="error" title="Revoked" className="mb-6">

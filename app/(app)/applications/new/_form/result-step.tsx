@@ -1,7 +1,7 @@
 "use client";
 
 import { Alert } from "@/app/_components/alert";
-import { Caution } from "@/app/_components/caution";
+import { AboutFigures } from "@/app/_components/about-figures";
 import { TierResult } from "@/app/_components/hazard/tier-result";
 import type { LiveAssessment } from "@/app/_components/hazard/use-live-assessment";
 import type { TierRules } from "@/lib/hazard";
@@ -14,7 +14,7 @@ export function ResultStep({ live, rules }: { live: LiveAssessment; rules: TierR
           The set-up on step 2 is not complete: {live.issues.length} field{live.issues.length === 1 ? "" : "s"} to
           complete or correct.
         </Alert>
-        <Caution />
+        <AboutFigures />
       </div>
     );
   }

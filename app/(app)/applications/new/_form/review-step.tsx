@@ -1,7 +1,7 @@
 "use client";
 
 import { useFormContext, useFormState, useWatch } from "react-hook-form";
-import { Caution } from "@/app/_components/caution";
+import { AboutFigures } from "@/app/_components/about-figures";
 import { headlineFigures } from "@/app/_components/hazard/figures";
 import type { LiveAssessment } from "@/app/_components/hazard/use-live-assessment";
 import { TierBadge } from "@/app/_components/tier-badge";
@@ -162,7 +162,7 @@ export function ReviewStep({ live, required, attachments, issues, onGoTo }: Revi
         )}
       </section>
 
-      <Caution />
+      <AboutFigures />
 
       <section aria-labelledby="attest-heading" className="rounded-lg border border-stone-300 bg-white px-4 py-3">
         <h3 id="attest-heading" className="text-base font-semibold text-stone-900">
