@@ -96,7 +96,7 @@ function Mark() {
               lineHeight: "28px",
             }}
           >
-            A
+            B
           </td>
           <td style={{ paddingLeft: "10px", fontSize: "16px", fontWeight: 600, color: C.text }}>Benchclear</td>
         </tr>

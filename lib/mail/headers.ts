@@ -32,5 +32,5 @@ export function senderDomain(mailFrom: string): string {
  * the same message; the row's creation time keeps ids unique across database resets (ids restart).
  */
 export function outboxMessageId(row: { id: number; createdAt: Date }, domain: string): string {
-  return `<aw.${row.id}.${row.createdAt.getTime().toString(36)}@${domain}>`;
+  return `<bc.${row.id}.${row.createdAt.getTime().toString(36)}@${domain}>`;
 }

