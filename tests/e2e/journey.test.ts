@@ -31,7 +31,7 @@ requireDatabase();
 // the reviewer recommends and the safety officer approves with their password; the instructor
 // downloads the permit; its QR page shows it active on a phone, then revoked once the officer
 // revokes it; and the daily job's reminder mail reaches the local inbox once when the clock is moved.
-// Every page is checked with axe-core; screenshots of the main screens go to docs/screenshots/.
+// Every page is checked with axe-core; screenshots of the main screens go to .data/screenshots/.
 
 /** The desktop size the screenshots are taken at, and a common 6.1-inch phone screen in CSS pixels. */
 const DESKTOP = { width: 1280, height: 800 };

@@ -1,5 +1,5 @@
 // Helpers for the whole-journey browser suite (tests/e2e/journey.test.ts): axe results kept per page
-// for the closing summary, screenshots into docs/screenshots/, and small waits on the database.
+// for the closing summary, screenshots, and small waits on the database.
 import { execFileSync } from "node:child_process";
 import fs from "node:fs";
 import os from "node:os";
@@ -12,11 +12,11 @@ import { invitationToken, invitationUrl as linkForToken } from "@/lib/users/invi
 import { applications, mailOutbox, permits } from "@/db/schema";
 import { seriousA11yViolations } from "./browser";
 
-// The committed pictures in docs/screenshots are refreshed on purpose (UPDATE_SCREENSHOTS=1 npm test);
-// an ordinary run writes them under .data so the working tree stays clean.
-export const SCREENSHOT_DIR = path.resolve(
-  process.env.UPDATE_SCREENSHOTS === "1" ? "docs/screenshots" : ".data/screenshots",
-);
+// The journey's pictures go under .data, for a person to look at after a run. The committed pictures
+// in docs/screenshots come from the demo story instead (tests/e2e/screenshots.test.ts, `npm run
+// screenshots`), so no test-made name ever shows in the README.
+export const SCREENSHOT_DIR = path.resolve(".data/screenshots");
+export const DOCS_SCREENSHOT_DIR = path.resolve("docs/screenshots");
 
 /** Every axe run of the journey: where, and how many serious or critical violations it found. */
 export const axeLog: { where: string; violations: number }[] = [];
@@ -27,12 +27,12 @@ export async function expectAccessible(page: Page, where: string): Promise<void>
   expect(violations, `axe (serious, critical) on ${where}`).toEqual([]);
 }
 
-/** A screenshot of what is on screen (not the full page), kept in docs/screenshots/<name>.png. */
-export async function screenshot(page: Page, name: string): Promise<void> {
-  fs.mkdirSync(SCREENSHOT_DIR, { recursive: true });
+/** A screenshot of what is on screen (not the full page), kept in <dir>/<name>.png. */
+export async function screenshot(page: Page, name: string, dir = SCREENSHOT_DIR): Promise<void> {
+  fs.mkdirSync(dir, { recursive: true });
   // Fonts and images settle before the picture is taken.
   await page.evaluate(() => document.fonts.ready.then(() => undefined));
-  await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`), fullPage: false });
+  await page.screenshot({ path: path.join(dir, `${name}.png`), fullPage: false });
 }
 
 export async function invitationUrl(email: string): Promise<string> {
