@@ -60,14 +60,17 @@ export function BenchCardDocument({
 
         {permit.tier > 0 && (
           <View style={{ marginBottom: 10 * scale }}>
-            <HazardHeader tier={permit.tier} wordSize={26 * Math.max(scale, 0.8)} />
+            <HazardHeader tier={permit.tier} wordSize={24 * scale} />
           </View>
         )}
 
         <View style={{ flexDirection: "row" }}>
           <View style={{ flex: 1, paddingRight: 14 }}>
             <Text style={s.eyebrow}>{data.institution.name} · Bench card</Text>
-            <Text style={{ fontSize: 20, fontWeight: 700, color: INK.text, marginTop: 4 }}>High voltage</Text>
+            {/* From tier 1 the hazard header above already opens with the hazard. */}
+            {permit.tier === 0 && (
+              <Text style={{ fontSize: 20, fontWeight: 700, color: INK.text, marginTop: 4 }}>High voltage</Text>
+            )}
             <Text style={{ fontSize: 13, color: INK.body }}>{data.apparatus.name}</Text>
             <Text style={{ fontSize: 11, color: INK.muted, marginTop: 2 }}>
               Room {data.event.room || data.apparatus.room}
