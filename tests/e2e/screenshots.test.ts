@@ -3,7 +3,7 @@ import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { apparatus, applications, permits } from "@/db/schema";
-import { DEMO_PASSWORD, seed } from "@/db/seed";
+import { DEMO_PASSWORD, seed } from "@/scripts/demo-data";
 import { requireDatabase } from "../support/db";
 import { randomIp } from "../support/http";
 import { launchBrowser, newContext, signInWithForm } from "./support/browser";
@@ -11,7 +11,7 @@ import { DOCS_SCREENSHOT_DIR, screenshot } from "./support/journey";
 
 requireDatabase();
 
-// The README's screenshots, taken from the demo story (db/seed.ts) as a new user of the demo would
+// The README's screenshots, taken from the demo story (scripts/demo-data.ts) as a new user of the demo would
 // see it, so no test-made name ever shows. Runs only on purpose, alone, on a fresh test database:
 //   npm run screenshots   (UPDATE_SCREENSHOTS=1 npm test -- tests/e2e/screenshots.test.ts)
 // and writes docs/screenshots/*.png.
