@@ -157,7 +157,7 @@ JOIN LATERAL (
 -- Permits: one per approved application, numbered per year after the demo's.
 INSERT INTO permit (number, year, seq, application_id, revision_id, holder_id, state, tier, valid_from, valid_to,
                     verification_code, issued_at, revoked_at, revoked_by_id, revoked_reason, created_at, updated_at)
-SELECT 'AW-' || y || '-' || lpad((1000 + s)::text, 6, '0'), y, 1000 + s, x.application_id, x.revision_id, x.applicant_id,
+SELECT 'HV-' || y || '-' || lpad((1000 + s)::text, 6, '0'), y, 1000 + s, x.application_id, x.revision_id, x.applicant_id,
        CASE WHEN x.i % 33 = 0 THEN 'revoked' WHEN x.valid_to < current_date THEN 'expired' ELSE 'active' END::permit_state,
        x.tier, x.valid_from, x.valid_to,
        md5('code' || x.i || random()) || md5(x.application_id::text),
