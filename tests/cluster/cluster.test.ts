@@ -207,13 +207,15 @@ async function mixedLoad(
   const started = Date.now();
   // The load runs for at least `ms`, and on until what happens `during` it has finished, plus 2 s.
   let stopAt = started + ms;
+  let finished = false;
   const happening = during().then(() => {
+    finished = true;
     stopAt = Math.max(stopAt, Date.now() + 2_000);
   });
   const loops = drafts.map(async (draft, i) => {
     let version = draft.version;
     let n = 0;
-    while (Date.now() < stopAt) {
+    while (!finished || Date.now() < stopAt) {
       n++;
       try {
         if (n % 2 === 0) {
