@@ -288,11 +288,18 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
                 Returned for changes: submitting makes revision {initial.revisions + 1}.
               </span>
             )}
-            {appId && (
-              <Button variant="ghost" size="sm" onClick={withdraw}>
-                Withdraw
-              </Button>
-            )}
+            {/* Laid out before the first save creates the draft, so nothing under the pointer moves
+                when it appears (a click meant for a field would land on the wrong one). */}
+            <Button
+              variant="ghost"
+              size="sm"
+              onClick={withdraw}
+              disabled={!appId}
+              aria-hidden={!appId || undefined}
+              className={appId ? undefined : "invisible"}
+            >
+              Withdraw
+            </Button>
           </div>
         </div>
         {withdrawError && <Alert tone="error">{withdrawError}</Alert>}
