@@ -98,8 +98,10 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
   const form = useForm<ApplicationDraft>({
     defaultValues: initial.draft,
     resolver: stepResolver(step, rules),
-    // A field is checked as soon as it is left (then on every change), not only on "Next".
-    mode: "onTouched",
+    // Checked on "Next", then on every change. Checking each field as it is left ("onTouched") put
+    // a message above the next control between the press and the release of a click, so a click
+    // meant for a checkbox landed beside it: moving the user's target is worse than a later message.
+    mode: "onSubmit",
     reValidateMode: "onChange",
     shouldFocusError: true,
   });
