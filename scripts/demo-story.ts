@@ -56,7 +56,7 @@ const APPARATUS: Record<0 | 1 | 2 | 3 | 4, Apparatus> = {
     notes: "Sphere terminal of 30 cm radius; a 25 cm sphere gap to ground limits the voltage.",
     setup: {
       sources: [{ id: "Terminal", kind: "sphere-terminal", radius_m: 0.3 }],
-      gaps: [{ sphereDiameter_m: 0.25, spacing_m: 0.08 }],
+      gaps: [{ sphereDiameter_m: 0.25, spacing_m: 0.08, across: ["Terminal"] }],
     },
   },
   3: {
@@ -67,7 +67,7 @@ const APPARATUS: Record<0 | 1 | 2 | 3 | 4, Apparatus> = {
       sources: [
         { id: "Jar bank", kind: "capacitor", capacitance_F: 5e-9, voltage_V: 25e3, count: 8, bleeder_ohm: 500e6 },
       ],
-      gaps: [{ sphereDiameter_m: 0.05, spacing_m: 0.012 }],
+      gaps: [{ sphereDiameter_m: 0.05, spacing_m: 0.012, across: ["Jar bank"] }],
     },
   },
   4: {

@@ -9,10 +9,12 @@ import {
   siParts,
   type Dimension,
   type EnergySource,
+  type Bleeder,
   type SetupInput,
   type SparkGap,
 } from "@/lib/hazard";
 import {
+  type BleederText,
   GAP_QUANTITY_FIELDS,
   SOURCE_QUANTITY_FIELDS,
   type GapQuantityField,
@@ -113,12 +115,37 @@ export function emptySourceText(kind: SourceKindName = "capacitor", label = ""):
   return { label, kind, arrangement: "", count: "", ...blankQuantities(SOURCE_QUANTITY_FIELDS) };
 }
 
-export function emptyGapText(): GapText {
-  return blankQuantities(GAP_QUANTITY_FIELDS);
+/** A new gap, connected across the given sources (the editor preselects a set-up's only source). */
+export function emptyGapText(across: string[] = []): GapText {
+  return { ...blankQuantities(GAP_QUANTITY_FIELDS), across };
+}
+
+export function emptyBleederText(across: string[] = []): BleederText {
+  return { label: "", resistance_ohm: "", across };
 }
 
 export function emptySetupText(): SetupText {
-  return { sources: [], gaps: [], bodyResistance_ohm: "", vacuumDevice: false };
+  return { sources: [], gaps: [], bleeders: [], bodyResistance_ohm: "", vacuumDevice: false };
+}
+
+/** The id the engine gives a typed source: its label, or "source-N" when the label is empty. */
+export function sourceTextId(source: Pick<SourceText, "label">, index: number): string {
+  const label = source.label.trim();
+  return label !== "" ? label : `source-${index + 1}`;
+}
+
+/**
+ * A set-up typed before gaps were wired (no gap says what it is across) gets its gaps connected across
+ * the sphere terminals with no voltage of their own, and nothing else; `rewired` asks the form to show
+ * the notice that the user should confirm the wiring.
+ */
+export function upgradeSetupText(text: SetupText): { text: SetupText; rewired: boolean } {
+  const gaps = text.gaps ?? [];
+  if (gaps.length === 0 || gaps.some((gap) => gap.across !== undefined)) return { text, rewired: false };
+  const terminals = text.sources.flatMap((source, index) =>
+    source.kind === "sphere-terminal" && source.voltage_V.trim() === "" ? [sourceTextId(source, index)] : [],
+  );
+  return { text: { ...text, gaps: gaps.map((gap) => ({ ...gap, across: [...terminals] })) }, rewired: true };
 }
 
 /** One typed quantity: "" for an empty field, a number, or the parser's message. */
@@ -175,7 +202,29 @@ function sourceFromText(text: SourceText, index: number, issues: PathIssue[]): E
 }
 
 function gapFromText(text: GapText, index: number, issues: PathIssue[]): SparkGap {
-  return readFields(GAP_FIELDS, text, ["gaps", index], issues) as SparkGap;
+  const gap = readFields(GAP_FIELDS, text, ["gaps", index], issues) as SparkGap;
+  if (text.across !== undefined) gap.across = [...text.across];
+  return gap;
+}
+
+function bleederFromText(text: BleederText, index: number, issues: PathIssue[]): Bleeder {
+  const read = readQuantity(text.resistance_ohm, "resistance");
+  const bleeder: Record<string, unknown> = { ...(text.label.trim() ? { id: text.label.trim() } : {}) };
+  if (read.empty)
+    issues.push({
+      path: ["bleeders", index, "resistance_ohm"],
+      message: "Enter the bleeder's resistance (e.g. 100 MΩ).",
+    });
+  else if (!read.ok) issues.push({ path: ["bleeders", index, "resistance_ohm"], message: read.message });
+  else bleeder.resistance_ohm = read.value;
+  if (text.across.length === 0) {
+    issues.push({
+      path: ["bleeders", index, "across"],
+      message: "Choose the sources this bleeder is connected across.",
+    });
+  }
+  bleeder.across = [...text.across];
+  return bleeder as Bleeder;
 }
 
 /**
@@ -184,10 +233,14 @@ function gapFromText(text: GapText, index: number, issues: PathIssue[]): SparkGa
  */
 export function setupFromText(text: SetupText): { setup: SetupInput | null; issues: PathIssue[] } {
   const issues: PathIssue[] = [];
-  const sources = text.sources.map((s, i) => sourceFromText(s, i, issues));
-  const gaps = text.gaps.map((g, i) => gapFromText(g, i, issues));
+  // Text typed before gaps were wired reads as engine 2 wiring (see upgradeSetupText).
+  const upgraded = upgradeSetupText(text).text;
+  const sources = upgraded.sources.map((s, i) => sourceFromText(s, i, issues));
+  const gaps = upgraded.gaps.map((g, i) => gapFromText(g, i, issues));
+  const bleeders = (upgraded.bleeders ?? []).map((b, i) => bleederFromText(b, i, issues));
   const setup: SetupInput = { sources };
   if (gaps.length > 0) setup.gaps = gaps;
+  if (bleeders.length > 0) setup.bleeders = bleeders;
   const body = readQuantity(text.bodyResistance_ohm, "resistance");
   if (!body.empty) {
     if (body.ok) setup.bodyResistance_ohm = body.value;
@@ -256,13 +309,22 @@ export function setupToText(setup: SetupInput): SetupText {
     return text;
   });
   const gaps = (setup.gaps ?? []).map((gap): GapText => {
-    const text = emptyGapText();
+    const text: GapText = emptyGapText();
     for (const spec of GAP_FIELDS) text[spec.name] = quantityOrEmpty(gap[spec.name], spec.dimension);
+    // A stored set-up from before gaps were wired keeps "across" absent, so upgradeSetupText can tell.
+    if (gap.across === undefined) delete text.across;
+    else text.across = [...gap.across];
     return text;
   });
+  const bleeders = (setup.bleeders ?? []).map((bleeder): BleederText => ({
+    label: bleeder.id ?? "",
+    resistance_ohm: quantityOrEmpty(bleeder.resistance_ohm, "resistance"),
+    across: [...bleeder.across],
+  }));
   return {
     sources,
     gaps,
+    bleeders,
     bodyResistance_ohm: quantityOrEmpty(setup.bodyResistance_ohm, "resistance"),
     vacuumDevice: setup.vacuumDevice === true,
   };

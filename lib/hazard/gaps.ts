@@ -3,6 +3,7 @@
 // the empirical uniform-field law for air (§4b) is used. Both are corrected for air density.
 
 import { HazardInputError } from "./errors";
+import { citation } from "./references";
 import { formatQuantity } from "./units";
 import type { SparkGap } from "./types";
 
@@ -23,28 +24,53 @@ export const MAX_GAP_SPACING_M = 1;
  * the measured minimum sparking voltage of air (about 327 V), so it would understate the ceiling. */
 export const MIN_REDUCED_SPACING_CM = 0.01;
 
-export const SPHERE_GAP_SOURCE =
-  "AIEE sphere-gap table, air at 760 mmHg and 25 °C, ±3 % (hazard-references §4c); density correction k = δ (IEC 60052, memory)";
-export const UNIFORM_FIELD_SOURCE =
-  "empirical uniform-field law for air, V = 24.22·x + 6.08·√x kV, x = δ·d in cm (hazard-references §4b)";
+export const SPHERE_GAP_SOURCE = `${citation("aiee-sphere-gap")}; tolerance and density correction: ${citation("iec-60052")}`;
+export const UNIFORM_FIELD_SOURCE = citation("uniform-field-law");
 
-/**
- * Sparkover voltages of sphere gaps (peak kV) against spacing (cm), one column per sphere diameter;
- * air at 760 mmHg and 25 °C. Columns stop where the source gives no value.
- */
+/** IEC 60052's stated uncertainty of the sphere-gap values: ±3 % for S ≤ D/2, ±5 % for D/2 < S ≤ D. */
+export const TABLE_TOLERANCE_NEAR = 0.03;
+export const TABLE_TOLERANCE_FAR = 0.05;
+/** Beyond S = D the standard states no uncertainty; 10 % is this product's cautious margin. */
+export const TABLE_TOLERANCE_BEYOND = 0.1;
+/** The uniform-field law is an empirical fit; 5 % is this product's cautious margin on it. */
+export const UNIFORM_FIELD_MARGIN = 0.05;
+
+// [spacing cm, peak kV] rows of each column: every row the reproduced AIEE table prints, air at
+// 760 mmHg and 25 °C. Columns stop where the table gives no value.
+const KV = [
+  5, 10, 15, 20, 25, 30, 35, 40, 45, 50, 60, 70, 80, 90, 100, 110, 120, 130, 140, 150, 160, 170, 180, 190, 200, 210,
+  220, 230, 240, 250, 300,
+] as const;
+const column = (diameter_cm: number, gaps: readonly number[]) => ({
+  diameter_cm,
+  rows: gaps.map((gap_cm, i) => [gap_cm, KV[i]] as const),
+});
+
+/** Sparkover voltages of sphere gaps (peak kV) against spacing (cm), one column per sphere diameter. */
 export const SPHERE_GAP_TABLE = {
   pressure_Pa: STANDARD_PRESSURE_PA,
   temperature_C: 25,
-  peak_kV: [10, 20, 30, 50, 100, 200],
   columns: [
-    { diameter_cm: 2.5, gap_cm: [0.27, 0.58, 0.95, 2.0] },
-    { diameter_cm: 5, gap_cm: [0.29, 0.6, 0.94, 1.71, 4.77] },
-    { diameter_cm: 10, gap_cm: [0.3, 0.62, 0.95, 1.65, 3.75, 11.1] },
-    { diameter_cm: 25, gap_cm: [0.32, 0.64, 0.98, 1.66, 3.49, 7.76] },
+    column(2.5, [0.13, 0.27, 0.42, 0.58, 0.76, 0.95, 1.17, 1.41, 1.68, 2.0, 2.82, 4.05]),
+    column(5, [0.15, 0.29, 0.44, 0.6, 0.77, 0.94, 1.12, 1.3, 1.5, 1.71, 2.17, 2.68, 3.26, 3.94, 4.77, 5.79, 7.07]),
+    column(
+      10,
+      [
+        0.15, 0.3, 0.46, 0.62, 0.78, 0.95, 1.12, 1.29, 1.47, 1.65, 2.02, 2.42, 2.84, 3.28, 3.75, 4.25, 4.78, 5.35, 5.97,
+        6.64, 7.37, 8.16, 9.03, 10.0, 11.1, 12.3, 13.7, 15.3,
+      ],
+    ),
+    column(
+      25,
+      [
+        0.16, 0.32, 0.48, 0.64, 0.81, 0.98, 1.15, 1.32, 1.49, 1.66, 2.01, 2.37, 2.74, 3.11, 3.49, 3.88, 4.28, 4.69, 5.1,
+        5.52, 5.95, 6.39, 6.84, 7.3, 7.76, 8.24, 8.73, 9.24, 9.76, 10.3, 13.3,
+      ],
+    ),
   ],
-} as const;
+};
 
-type Column = (typeof SPHERE_GAP_TABLE.columns)[number];
+export type SphereGapColumn = { diameter_cm: number; rows: ReadonlyArray<readonly [number, number]> };
 
 /** Relative air density δ = (p / 101325 Pa)·(293.15 K / (273.15 + T)); 1 at 101325 Pa and 20 °C. */
 export function relativeAirDensity(pressure_Pa: number, temperature_C: number): number {
@@ -65,42 +91,80 @@ export function uniformFieldBreakdown_kV(reducedSpacing_cm: number): number {
 /** Relative tolerance for matching a diameter or spacing to a table entry (metres × 100 is inexact). */
 const MATCH = 1e-9;
 
-type ColumnReading = { kV: number; rows: string };
-
-function rowName(column: Column, index: number): string {
-  return `the ${SPHERE_GAP_TABLE.peak_kV[index]} kV row (${column.gap_cm[index]} cm)`;
+/**
+ * Monotone cubic (PCHIP, Fritsch–Carlson) through the rows: follows the bend of the curve where
+ * straight lines between rows read up to 7 % low, and never overshoots between two rows.
+ */
+export function pchip(rows: ReadonlyArray<readonly [number, number]>, x: number): number {
+  const n = rows.length;
+  const h: number[] = [];
+  const delta: number[] = [];
+  for (let i = 0; i < n - 1; i++) {
+    h.push(rows[i + 1][0] - rows[i][0]);
+    delta.push((rows[i + 1][1] - rows[i][1]) / h[i]);
+  }
+  const d = new Array<number>(n).fill(0);
+  for (let i = 1; i < n - 1; i++) {
+    if (delta[i - 1] * delta[i] > 0) {
+      const w1 = 2 * h[i] + h[i - 1];
+      const w2 = h[i] + 2 * h[i - 1];
+      d[i] = (w1 + w2) / (w1 / delta[i - 1] + w2 / delta[i]);
+    }
+  }
+  const end = (h0: number, h1: number, m0: number, m1: number) => {
+    let slope = ((2 * h0 + h1) * m0 - h0 * m1) / (h0 + h1);
+    if (Math.sign(slope) !== Math.sign(m0)) slope = 0;
+    else if (Math.sign(m0) !== Math.sign(m1) && Math.abs(slope) > Math.abs(3 * m0)) slope = 3 * m0;
+    return slope;
+  };
+  if (n === 2) {
+    d[0] = d[1] = delta[0];
+  } else {
+    d[0] = end(h[0], h[1], delta[0], delta[1]);
+    d[n - 1] = end(h[n - 2], h[n - 3], delta[n - 2], delta[n - 3]);
+  }
+  let i = 0;
+  while (i < n - 2 && x > rows[i + 1][0]) i++;
+  const t = (x - rows[i][0]) / h[i];
+  const t2 = t * t;
+  const t3 = t2 * t;
+  return (
+    (2 * t3 - 3 * t2 + 1) * rows[i][1] +
+    (t3 - 2 * t2 + t) * h[i] * d[i] +
+    (-2 * t3 + 3 * t2) * rows[i + 1][1] +
+    (t3 - t2) * h[i] * d[i + 1]
+  );
 }
 
-/** Peak kV at table air for a spacing inside one column, linear in spacing between rows. */
-function readColumn(column: Column, spacing_cm: number): ColumnReading | null {
-  const gaps = column.gap_cm;
-  const first = gaps[0];
-  const last = gaps[gaps.length - 1];
+type ColumnReading = { kV: number; rows: string };
+
+/** Peak kV at table air for a spacing inside one column. */
+function readColumn(col: SphereGapColumn, spacing_cm: number): ColumnReading | null {
+  const rows = col.rows;
+  const first = rows[0][0];
+  const last = rows[rows.length - 1][0];
   if (spacing_cm < first * (1 - MATCH) || spacing_cm > last * (1 + MATCH)) return null;
-  for (let i = 0; i < gaps.length; i++) {
-    if (Math.abs(spacing_cm - gaps[i]) <= gaps[i] * MATCH) {
-      return { kV: SPHERE_GAP_TABLE.peak_kV[i], rows: rowName(column, i) };
-    }
-  }
-  for (let i = 0; i < gaps.length - 1; i++) {
-    if (spacing_cm > gaps[i] && spacing_cm < gaps[i + 1]) {
-      const fraction = (spacing_cm - gaps[i]) / (gaps[i + 1] - gaps[i]);
-      const kV =
-        SPHERE_GAP_TABLE.peak_kV[i] + fraction * (SPHERE_GAP_TABLE.peak_kV[i + 1] - SPHERE_GAP_TABLE.peak_kV[i]);
-      return { kV, rows: `between ${rowName(column, i)} and ${rowName(column, i + 1)}` };
-    }
-  }
-  return null;
+  const at = rows.find(([gap]) => Math.abs(spacing_cm - gap) <= gap * MATCH);
+  if (at) return { kV: at[1], rows: `the ${at[1]} kV row (${at[0]} cm)` };
+  const kV = pchip(rows, spacing_cm);
+  const i = rows.findIndex(([gap]) => gap > spacing_cm);
+  return {
+    kV,
+    rows: `between the ${rows[i - 1][1]} kV row (${rows[i - 1][0]} cm) and the ${rows[i][1]} kV row (${rows[i][0]} cm), monotone cubic through every row`,
+  };
 }
 
 type TableReading = { kV: number; detail: string };
 
-function readTable(diameter_cm: number, spacing_cm: number): TableReading | null {
-  const columns = SPHERE_GAP_TABLE.columns;
-  for (const column of columns) {
-    if (Math.abs(diameter_cm - column.diameter_cm) <= column.diameter_cm * MATCH) {
-      const reading = readColumn(column, spacing_cm);
-      return reading && { kV: reading.kV, detail: `${column.diameter_cm} cm column, ${reading.rows}` };
+export function readSphereGapTable(
+  diameter_cm: number,
+  spacing_cm: number,
+  columns: readonly SphereGapColumn[],
+): TableReading | null {
+  for (const col of columns) {
+    if (Math.abs(diameter_cm - col.diameter_cm) <= col.diameter_cm * MATCH) {
+      const reading = readColumn(col, spacing_cm);
+      return reading && { kV: reading.kV, detail: `${col.diameter_cm} cm column, ${reading.rows}` };
     }
   }
   for (let i = 0; i < columns.length - 1; i++) {
@@ -109,16 +173,27 @@ function readTable(diameter_cm: number, spacing_cm: number): TableReading | null
     if (diameter_cm > low.diameter_cm && diameter_cm < high.diameter_cm) {
       const a = readColumn(low, spacing_cm);
       const b = readColumn(high, spacing_cm);
-      if (!a || !b) return null;
-      // The columns are spaced roughly by factors of two, so the diameter is interpolated on a log scale.
-      const fraction = Math.log(diameter_cm / low.diameter_cm) / Math.log(high.diameter_cm / low.diameter_cm);
-      const kV = a.kV + fraction * (b.kV - a.kV);
-      return {
-        kV,
-        detail:
-          `${low.diameter_cm} cm column (${a.rows}: ${a.kV.toFixed(1)} kV) and ${high.diameter_cm} cm column ` +
-          `(${b.rows}: ${b.kV.toFixed(1)} kV), interpolated on log(diameter)`,
-      };
+      // Between two columns the higher of the two readings is used: at short spacings the smaller
+      // spheres spark over a little higher, at long ones the larger; either way the ceiling errs high.
+      if (a && b) {
+        const higher = a.kV >= b.kV ? { col: low, reading: a } : { col: high, reading: b };
+        return {
+          kV: higher.reading.kV,
+          detail:
+            `between the ${low.diameter_cm} cm column (${a.kV.toFixed(1)} kV) and the ${high.diameter_cm} cm column ` +
+            `(${b.kV.toFixed(1)} kV); the higher, ${higher.col.diameter_cm} cm (${higher.reading.rows}), is used`,
+        };
+      }
+      // Past the smaller column's last row only the larger column reads; larger spheres hold more at
+      // long spacings, so its value errs high for the spheres in between.
+      const lastOfLow = low.rows[low.rows.length - 1][0];
+      if (b && spacing_cm > lastOfLow) {
+        return {
+          kV: b.kV,
+          detail: `${high.diameter_cm} cm column (${b.rows}), the larger spheres, as the ${low.diameter_cm} cm column ends at ${lastOfLow} cm`,
+        };
+      }
+      return null;
     }
   }
   return null;
@@ -127,7 +202,12 @@ function readTable(diameter_cm: number, spacing_cm: number): TableReading | null
 export type GapMethod = "sphere-gap table" | "uniform-field law";
 
 export type GapBreakdown = {
+  /** Nominal breakdown, peak V. */
   breakdown_V: number;
+  /** Relative uncertainty of the nominal value the ceiling allows for (0.03 = ±3 %). */
+  tolerance: number;
+  /** The ceiling used: nominal × (1 + tolerance), peak V. Errs high, as a low ceiling understates. */
+  bound_V: number;
   method: GapMethod;
   /** Relative air density of the gap's air. */
   delta: number;
@@ -193,18 +273,34 @@ export function gapBreakdown(gap: SparkGap, index = 0): GapBreakdown {
     "(δ = (p / 101325 Pa)·(293.15 K / (273.15 + T)))";
   const gapText = `${formatQuantity(sphereDiameter_m, "m")} spheres ${formatQuantity(spacing_m, "m")} apart`;
 
-  const table = readTable(diameter_cm, spacing_cm);
+  const table = readSphereGapTable(diameter_cm, spacing_cm, SPHERE_GAP_TABLE.columns);
   if (table) {
     const factor = delta / TABLE_AIR_DENSITY;
     const breakdown_V = table.kV * 1000 * factor;
+    const tolerance =
+      spacing_cm <= diameter_cm / 2
+        ? TABLE_TOLERANCE_NEAR
+        : spacing_cm <= diameter_cm
+          ? TABLE_TOLERANCE_FAR
+          : TABLE_TOLERANCE_BEYOND;
+    const toleranceWhy =
+      tolerance === TABLE_TOLERANCE_NEAR
+        ? "±3 % for a spacing up to half the diameter (IEC 60052)"
+        : tolerance === TABLE_TOLERANCE_FAR
+          ? "±5 % for a spacing between half and one diameter (IEC 60052)"
+          : "10 % beyond one diameter, where IEC 60052 states no accuracy (this product's cautious margin)";
+    const bound_V = breakdown_V * (1 + tolerance);
     const approximate =
       factor < 0.95 || factor > 1.05 ? "; outside 0.95–1.05 the linear density correction is approximate" : "";
     return {
       breakdown_V,
+      tolerance,
+      bound_V,
       method: "sphere-gap table",
       delta,
       detail:
-        `${gapText} spark over at ${formatQuantity(breakdown_V, "V")} (sphere-gap table: ${table.detail}, ` +
+        `${gapText} spark over at ${formatQuantity(breakdown_V, "V")} nominal, at most ${formatQuantity(bound_V, "V")} ` +
+        `allowing ${toleranceWhy} (sphere-gap table: ${table.detail}, ` +
         `${table.kV.toFixed(1)} kV at the table's air of 760 mmHg and 25 °C, scaled by δ / ${TABLE_AIR_DENSITY.toFixed(3)} ` +
         `= ${factor.toFixed(3)}; ${air}${approximate})`,
       source: SPHERE_GAP_SOURCE,
@@ -224,12 +320,16 @@ export function gapBreakdown(gap: SparkGap, index = 0): GapBreakdown {
     spacing_cm > diameter_cm / 2
       ? "; the field between these spheres is far from uniform, so this ceiling errs high"
       : "";
+  const bound_V = breakdown_V * (1 + UNIFORM_FIELD_MARGIN);
   return {
     breakdown_V,
+    tolerance: UNIFORM_FIELD_MARGIN,
+    bound_V,
     method: "uniform-field law",
     delta,
     detail:
-      `${gapText} spark over at ${formatQuantity(breakdown_V, "V")} (uniform-field law, as ${why}: ` +
+      `${gapText} spark over at ${formatQuantity(breakdown_V, "V")} nominal, at most ${formatQuantity(bound_V, "V")} ` +
+      `allowing a 5 % margin on an empirical law (uniform-field law, as ${why}: ` +
       `V = 24.22·x + 6.08·√x kV with x = δ·d = ${delta.toFixed(3)} × ${spacing_cm.toPrecision(3)} cm = ${reduced_cm.toPrecision(3)} cm; ` +
       `${air}${nonUniform})`,
     source: UNIFORM_FIELD_SOURCE,

@@ -8,6 +8,8 @@ export { HazardInputError, formatInputPath, type InputPath } from "./errors";
 export { INPUT_LIMITS, validateSetupInput } from "./validate";
 export {
   gapBreakdown,
+  pchip,
+  readSphereGapTable,
   relativeAirDensity,
   uniformFieldBreakdown_kV,
   SPHERE_GAP_TABLE,
@@ -16,7 +18,20 @@ export {
   MIN_REDUCED_SPACING_CM,
   type GapBreakdown,
   type GapMethod,
+  type SphereGapColumn,
 } from "./gaps";
+export {
+  REFERENCES,
+  citation,
+  readableSource,
+  referenceAnchor,
+  referenceById,
+  shortCitation,
+  statusText,
+  type Reference,
+  type ReferenceStatus,
+} from "./references";
+export { isPreWiringSetup, upgradeSetup, type UpgradedSetup } from "./upgrade";
 export {
   approachDistances,
   AC_APPROACH_TABLE,
@@ -45,6 +60,7 @@ export {
 } from "./units";
 export type {
   AcSupplySource,
+  Bleeder,
   Assessment,
   CapacitorSource,
   ControlRule,
@@ -63,3 +79,4 @@ export type {
   Tier,
   TierRules,
 } from "./types";
+export { wayDown, type WayDown, type WayDownChange, type WayDownSuggestion } from "./way-down";

@@ -4,6 +4,7 @@
 // the same shape; validateRules() is the minimal check such a stored object gets before use.
 
 import { HazardInputError } from "./errors";
+import { citation } from "./references";
 import type { ControlRule, Threshold, Tier, TierRules } from "./types";
 
 export const TIER_LABELS: Readonly<Record<Tier, string>> = {
@@ -14,101 +15,72 @@ export const TIER_LABELS: Readonly<Record<Tier, string>> = {
   4: "Arc and blast",
 };
 
-const t = (value: number, unit: string, source: string): Threshold => ({ value, unit, source });
+/** A threshold whose source text is the reference's citation, plus what the value is there. */
+const t = (value: number, unit: string, ref: string, what = ""): Threshold => ({
+  value,
+  unit,
+  source: what ? `${citation(ref)}: ${what}` : citation(ref),
+  ref,
+});
 
 const COMMON_PRACTICE = "common practice";
-const CAPACITANCE_LEVELS =
-  "IEC 60335-1 8.1.4 (quoted text, hazard-references §2b); the same levels in IEC 61010-1 6.3 (memory, §2a)";
 
 export const DEFAULT_RULES: TierRules = {
-  rulesVersion: "benchclear-default-1",
-  bodyResistance: t(500, "Ω", "worst-case hand to hand, common practice (hazard-references §3b)"),
-  safeVoltage: t(60, "V", "IEC 60204-1 6.2.4: residual voltage at or below 60 V (hazard-references §6a)"),
+  rulesVersion: "benchclear-default-2",
+  bodyResistance: t(500, "Ω", "iec-60479-1-impedance", "500 Ω hand to hand, the cautious end"),
+  safeVoltage: t(60, "V", "iec-60204-1-6-2-4", "residual voltage at or below 60 V"),
   touchSafe: {
-    dcVoltage: t(60, "V", "IEC 62368-1 ES1, 60 V DC (memory; hazard-references §2c)"),
-    acVoltageRms: t(30, "V", "IEC 62368-1 ES1, 30 V rms (memory; hazard-references §2c)"),
-    dcCurrent: t(
-      0.002,
-      "A",
-      "IEC 61010-1 touch current 2 mA DC (found in an instrument manual, clause 6.3.1 from memory); IEC 60335-1 8.1.4 (hazard-references §2a, §2b)",
-    ),
-    acCurrentRms: t(
-      0.0005,
-      "A",
-      "IEC 61010-1 touch current 0.5 mA rms (found in an instrument manual); IEC 62368-1 ES1 (memory) (hazard-references §2a, §2c)",
-    ),
-    capacitanceBandTop: t(450, "V", CAPACITANCE_LEVELS),
-    capacitance: t(1e-7, "F", CAPACITANCE_LEVELS),
-    chargeBandTop: t(15_000, "V", CAPACITANCE_LEVELS),
-    charge: t(45e-6, "C", CAPACITANCE_LEVELS),
-    energy: t(0.35, "J", CAPACITANCE_LEVELS),
+    dcVoltage: t(60, "V", "iec-62368-1-es1", "60 V DC"),
+    acVoltageRms: t(30, "V", "iec-62368-1-es1", "30 V rms"),
+    dcCurrent: t(0.002, "A", "iec-61010-1-6-3", "touch current 2 mA DC (the same in IEC 60335-1 8.1.4)"),
+    acCurrentRms: t(0.0005, "A", "iec-61010-1-6-3", "touch current 0.5 mA rms"),
+    capacitanceBandTop: t(450, "V", "iec-60335-1-8-1-4", "0.1 µF band up to 450 V"),
+    capacitance: t(1e-7, "F", "iec-60335-1-8-1-4", "0.1 µF from 42.4 V to 450 V"),
+    chargeBandTop: t(15_000, "V", "iec-60335-1-8-1-4", "45 µC band up to 15 kV"),
+    charge: t(45e-6, "C", "iec-60335-1-8-1-4", "45 µC from 450 V to 15 kV"),
+    energy: t(0.35, "J", "iec-60335-1-8-1-4", "350 mJ above 15 kV"),
   },
   reflex: {
-    energy: t(0.25, "J", "capacitor discharge guideline: 0.25 J gives a heavy shock (hazard-references §1c)"),
-    dcCurrent: t(0.025, "A", "IEC 62368-1 ES2, 25 mA DC (memory; hazard-references §2c)"),
-    acCurrentRms: t(
-      0.005,
-      "A",
-      "LBNL Electrical Safety Manual Table 2.2.13, AC shock at 5 mA; IEC 62368-1 ES2, 5 mA rms (memory) (hazard-references §1a, §2c)",
-    ),
+    energy: t(0.25, "J", "capacitor-discharge-guideline", "0.25 J gives a heavy shock"),
+    dcCurrent: t(0.025, "A", "iec-62368-1-es2", "25 mA DC, the ES2 limit"),
+    acCurrentRms: t(0.005, "A", "lbnl-esm-2-2-13", "AC shock hazard from 5 mA (ES2 of IEC 62368-1 is also 5 mA rms)"),
   },
   lethal: {
-    energy: t(
-      10,
-      "J",
-      "LBNL Electrical Safety Manual Table 2.2.13, capacitors at 100 V or more and 10 J or more (hazard-references §1a)",
-    ),
-    energyMinVoltage: t(100, "V", "LBNL Electrical Safety Manual Table 2.2.13 (hazard-references §1a)"),
-    dcCurrent: t(
-      0.04,
-      "A",
-      "LBNL Electrical Safety Manual Table 2.2.13, DC at 100 V or more and 40 mA or more (hazard-references §1a)",
-    ),
-    dcMinVoltage: t(100, "V", "LBNL Electrical Safety Manual Table 2.2.13 (hazard-references §1a)"),
-    acCurrentRms: t(0.03, "A", "IEC 60479-1 fibrillation zone, about 30 mA (memory; hazard-references §3c)"),
-    acMinVoltageRms: t(
-      50,
-      "V",
-      "LBNL Electrical Safety Manual Table 2.2.13 and NFPA 70E, 50 V AC (hazard-references §1a)",
-    ),
+    energy: t(10, "J", "lbnl-esm-2-2-13", "capacitors at 100 V or more and 10 J or more"),
+    energyMinVoltage: t(100, "V", "lbnl-esm-2-2-13", "capacitors at 100 V or more"),
+    dcCurrent: t(0.04, "A", "lbnl-esm-2-2-13", "DC at 100 V or more and 40 mA or more"),
+    dcMinVoltage: t(100, "V", "lbnl-esm-2-2-13", "DC at 100 V or more"),
+    acCurrentRms: t(0.03, "A", "iec-60364-4-41-rcd", "30 mA rms"),
+    acMinVoltageRms: t(50, "V", "lbnl-esm-2-2-13", "AC at 50 V or more"),
   },
   arc: {
-    energy: t(
-      10_000,
-      "J",
-      "LBNL Electrical Safety Manual, arc flash: capacitors at 100 V or more and 10 kJ or more (hazard-references §1a)",
-    ),
-    energyMinVoltage: t(100, "V", "LBNL Electrical Safety Manual, arc flash (hazard-references §1a)"),
-    dcCurrentLimit: t(
-      500,
-      "A",
-      "LBNL Electrical Safety Manual, arc flash: DC at 100 V or more and 500 A or more (hazard-references §1a)",
-    ),
-    dcMinVoltage: t(100, "V", "LBNL Electrical Safety Manual, arc flash (hazard-references §1a)"),
+    energy: t(10_000, "J", "lbnl-esm-2-2-13", "arc flash: capacitors at 100 V or more and 10 kJ or more"),
+    energyMinVoltage: t(100, "V", "lbnl-esm-2-2-13", "arc flash: capacitors at 100 V or more"),
+    dcCurrentLimit: t(500, "A", "lbnl-esm-2-2-13", "arc flash: DC at 100 V or more and 500 A or more"),
+    dcMinVoltage: t(100, "V", "lbnl-esm-2-2-13", "arc flash: DC at 100 V or more"),
+    acMinVoltageRms: t(250, "V", "lbnl-esm-2-2-13", "arc flash: AC power at 250 V or more"),
   },
   flags: {
-    thermalMaxVoltage: t(
-      100,
-      "V",
-      "LBNL Electrical Safety Manual, thermal: capacitors below 100 V and above 100 J (hazard-references §1a)",
-    ),
-    thermalEnergy: t(100, "J", "LBNL Electrical Safety Manual, thermal (hazard-references §1a)"),
-    xrayVoltage: t(
-      10_000,
-      "V",
-      "practitioner reports of x-rays from vacuum devices from about 10 kV; no published threshold (hazard-references §6d)",
-    ),
-    ozoneVoltage: t(
-      10_000,
-      "V",
-      "corona and open sparks make ozone, common practice; OSHA PEL 0.1 ppm (hazard-references §6c)",
-    ),
-    ignitionEnergy: t(2e-4, "J", "minimum ignition energy of common flammable vapours, about 0.2 mJ (memory)"),
-    noBleederEnergy: t(
-      0.1,
-      "J",
-      "capacitor discharge guideline: above 0.1 J provide a means of discharge (hazard-references §1c)",
-    ),
+    thermalMaxVoltage: t(100, "V", "lbnl-esm-2-2-13", "thermal: capacitors below 100 V"),
+    thermalEnergy: t(100, "J", "lbnl-esm-2-2-13", "thermal: capacitors above 100 J"),
+    xrayVoltage: t(10_000, "V", "xray-practice", "x-rays reported from about 10 kV"),
+    ozoneVoltage: t(10_000, "V", "osha-ozone", "corona from about 10 kV"),
+    ignitionEnergy: t(2e-4, "J", "min-ignition-energy", "about 0.2 mJ"),
+    noBleederEnergy: t(0.1, "J", "capacitor-discharge-guideline", "above 0.1 J provide a means of discharge"),
+    dcThermalMaxVoltage: t(100, "V", "lbnl-esm-2-2-13", "thermal: DC below 100 V"),
+    dcThermalPower: t(1000, "W", "lbnl-esm-2-2-13", "thermal: DC above 1000 W"),
+  },
+  impulse: {
+    specificEnergy: t(0.0025, "A²s", "iec-60479-2-impulse", "fibrillation possible from 0.0025 A²s"),
+    minDuration: t(1e-4, "s", "iec-60479-2-impulse", "data for impulses of 0.1 ms or longer"),
+  },
+  discharge: {
+    time: t(5, "s", "iec-60204-1-6-2-4", "discharged to 60 V within 5 s"),
+    exemptCharge: t(60e-6, "C", "iec-60204-1-6-2-4", "parts storing 60 µC or less are exempt"),
+  },
+  plausibility: {
+    bleederPower: t(1000, "W", "benchclear-plausibility", "a bleeder dissipating more than 1 kW"),
+    minTimeToSafe: t(1e-6, "s", "benchclear-plausibility", "a discharge to 60 V in under 1 µs"),
   },
   controls: [
     { id: "warning-sign", fromTier: 1, text: "Warning sign at the bench.", source: COMMON_PRACTICE },
@@ -201,6 +173,33 @@ const EXPECTED_UNITS: ReadonlyArray<readonly [ThresholdPath, string]> = [
   [["flags", "noBleederEnergy"], "J"],
 ];
 
+/** v2 thresholds: a rule set adopted before them may lack them, and then takes the defaults. */
+const V2_UNITS: ReadonlyArray<readonly [ThresholdPath, string]> = [
+  [["arc", "acMinVoltageRms"], "V"],
+  [["flags", "dcThermalMaxVoltage"], "V"],
+  [["flags", "dcThermalPower"], "W"],
+  [["impulse", "specificEnergy"], "A²s"],
+  [["impulse", "minDuration"], "s"],
+  [["discharge", "time"], "s"],
+  [["discharge", "exemptCharge"], "C"],
+  [["plausibility", "bleederPower"], "W"],
+  [["plausibility", "minTimeToSafe"], "s"],
+];
+
+/**
+ * A rule set with every v2 threshold present: those an older stored set lacks come from the
+ * defaults. Returns the same object when nothing is missing.
+ */
+export function completeRules(rules: TierRules): TierRules {
+  const loose = rules as unknown as Record<string, Record<string, unknown> | undefined>;
+  const missing = V2_UNITS.filter(([[group, key]]) => loose[group]?.[key] === undefined);
+  if (missing.length === 0) return rules;
+  const out = { ...rules } as unknown as Record<string, Record<string, unknown>>;
+  const defaults = DEFAULT_RULES as unknown as Record<string, Record<string, unknown>>;
+  for (const [[group, key]] of missing) out[group] = { ...(out[group] ?? {}), [key]: defaults[group][key] };
+  return out as unknown as TierRules;
+}
+
 function isRecord(value: unknown): value is Record<string, unknown> {
   return typeof value === "object" && value !== null && !Array.isArray(value);
 }
@@ -225,7 +224,8 @@ export function validateRules(rules: unknown): asserts rules is TierRules {
   if (typeof rules.rulesVersion !== "string" || rules.rulesVersion.trim() === "") {
     throw new HazardInputError(["rules", "rulesVersion"], "must be a non-empty string");
   }
-  for (const [at, unitName] of EXPECTED_UNITS) {
+  const present = V2_UNITS.filter(([at]) => thresholdAt(rules, at) !== undefined);
+  for (const [at, unitName] of [...EXPECTED_UNITS, ...present]) {
     const path = pathOf(at);
     const threshold = thresholdAt(rules, at);
     if (!isRecord(threshold)) throw new HazardInputError(path, "must be a threshold { value, unit, source }");
@@ -237,7 +237,7 @@ export function validateRules(rules: unknown): asserts rules is TierRules {
       throw new HazardInputError([...path, "source"], "must name where the number comes from");
     }
   }
-  const r = rules as TierRules;
+  const r = completeRules(rules as TierRules);
   // Each chain runs from the lowest tier's threshold to the highest; a higher tier reached at a lower
   // value would make the lower tier unreachable.
   const chains: ReadonlyArray<ReadonlyArray<readonly [ThresholdPath, number]>> = [

@@ -4,8 +4,10 @@
 export type SetupInput = {
   /** At least one. */
   sources: EnergySource[];
-  /** Spark gaps across the stored-energy path; the lowest breakdown caps every source's voltage. */
+  /** Spark gaps; each caps only the sources named in its `across` (v2). */
   gaps?: SparkGap[];
+  /** Bleeders wired across one or more sources (v2), beside the per-source `bleeder_ohm`. */
+  bleeders?: Bleeder[];
   /** Body model between the touched parts; default 500 Ω (worst-case hand to hand, common practice). */
   bodyResistance_ohm?: number;
   /** A tube or vacuum gap is driven: field-emitted electrons can make x-rays (x-ray flag). */
@@ -73,13 +75,19 @@ export type EnergySource =
 export type SourceKind = EnergySource["kind"];
 
 export type SparkGap = {
+  id?: string;
   sphereDiameter_m: number;
   spacing_m: number;
   /** Default 101325 Pa (one standard atmosphere). */
   pressure_Pa?: number;
   /** Default 20 °C. */
   temperature_C?: number;
+  /** Ids of the sources this gap is connected across (v2). A gap across nothing caps nothing. */
+  across?: string[];
 };
+
+/** A bleeder resistor wired across one or more sources (v2); it discharges all of them together. */
+export type Bleeder = { id?: string; resistance_ohm: number; across: string[] };
 
 export type Tier = 0 | 1 | 2 | 3 | 4;
 
@@ -99,12 +107,23 @@ export type Reason = {
   tier: number;
   /** Plain English, with the figures and units. */
   meaning: string;
+  /** Publication, edition and clause, and whether read, from memory or common practice. */
   source: string;
+  /** Id of the entry in the list of references (lib/hazard/references.ts), for a link. */
+  ref?: string;
 };
 
-export type FlagCode = "thermal" | "x-ray" | "ozone" | "ignition" | "overvoltage" | "no-bleeder";
+export type FlagCode =
+  "thermal" | "x-ray" | "ozone" | "ignition" | "overvoltage" | "no-bleeder" | "discharge-time" | "implausible";
 
-export type Flag = { code: FlagCode; message: string; source: string };
+export type Flag = {
+  code: FlagCode;
+  message: string;
+  source: string;
+  ref?: string;
+  /** "implausible" flags: the field that looks mistyped, e.g. "sources[0].bleeder_ohm". */
+  field?: string;
+};
 
 export type SourceResult = {
   /** The input id, or "source-N" (1-based) when none was given. */
@@ -131,7 +150,8 @@ export type Assessment = {
   tierLabel: string;
   /** Highest voltage any source reaches, after gap ceilings (AC supplies as crest value). */
   maxVoltage_V: number;
-  /** Lowest gap breakdown voltage (peak), if gaps are given. */
+  /** Lowest ceiling a gap puts on a source it is across: the breakdown's upper bound,
+   * nominal × (1 + tolerance); null when no gap is across any source. */
   gapCeiling_V: number | null;
   /** Total stored-energy capacitance. */
   capacitance_F: number;
@@ -140,9 +160,9 @@ export type Assessment = {
   energy_J: number;
   /** V / (R_body + R_series) of the worst source (the one with the highest peak current). */
   peakCurrent_A: number;
-  /** (R_body + R_series)·C of the worst source. */
+  /** (R_body + R_series)·C, largest over capacitive sources (v2); 0 when none stores charge. */
   timeConstant_s: number;
-  /** ∫i²dt into the body for the worst source = V²·C / (2·R). */
+  /** ∫i²dt into the body = V²·C / (2·R), largest over capacitive sources (v2). */
   specificEnergy_A2s: number;
   /** Highest over supplies of min(limit, V / (R_body + R_series)); AC as rms. */
   continuousCurrent_A: number;
@@ -156,7 +176,7 @@ export type Assessment = {
 };
 
 /** One threshold of the tier rules, in SI base units, with where the number comes from. */
-export type Threshold = { value: number; unit: string; source: string };
+export type Threshold = { value: number; unit: string; source: string; ref?: string };
 
 /** A control the tier requires, from `fromTier` upwards. */
 export type ControlRule = { id: string; fromTier: 1 | 2 | 3 | 4; text: string; source: string };
@@ -194,7 +214,14 @@ export type TierRules = {
     acCurrentRms: Threshold;
     acMinVoltageRms: Threshold;
   };
-  arc: { energy: Threshold; energyMinVoltage: Threshold; dcCurrentLimit: Threshold; dcMinVoltage: Threshold };
+  arc: {
+    energy: Threshold;
+    energyMinVoltage: Threshold;
+    dcCurrentLimit: Threshold;
+    dcMinVoltage: Threshold;
+    /** v2: AC power at or above this rms voltage is an arc-flash hazard. */
+    acMinVoltageRms: Threshold;
+  };
   flags: {
     thermalMaxVoltage: Threshold;
     thermalEnergy: Threshold;
@@ -202,6 +229,15 @@ export type TierRules = {
     ozoneVoltage: Threshold;
     ignitionEnergy: Threshold;
     noBleederEnergy: Threshold;
+    /** v2: DC supply below this voltage delivering more than dcThermalPower. */
+    dcThermalMaxVoltage: Threshold;
+    dcThermalPower: Threshold;
   };
+  /** v2: ∫i²dt of a capacitor discharge into the body against fibrillation data (tier 3). */
+  impulse: { specificEnergy: Threshold; minDuration: Threshold };
+  /** v2: discharge within a time to the safe voltage; charges at or below exemptCharge are exempt. */
+  discharge: { time: Threshold; exemptCharge: Threshold };
+  /** v2: figures a part cannot plausibly have: asked to be confirmed. */
+  plausibility: { bleederPower: Threshold; minTimeToSafe: Threshold };
   controls: ControlRule[];
 };

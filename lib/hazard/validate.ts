@@ -60,7 +60,7 @@ function optional(value: unknown, check: () => void): void {
 
 const KINDS = ["capacitor", "custom-capacitance", "sphere-terminal", "dc-supply", "ac-supply"] as const;
 
-function checkSource(source: unknown, index: number, hasGap: boolean): void {
+function checkSource(source: unknown, index: number, namedByGap: boolean): void {
   const at = (field: string): Path => ["sources", index, field];
   if (!isRecord(source)) throw new HazardInputError(["sources", index], "must be an energy source object");
   if (source.id !== undefined && typeof source.id !== "string")
@@ -101,10 +101,10 @@ function checkSource(source: unknown, index: number, hasGap: boolean): void {
     case "sphere-terminal":
       positive(source.radius_m, at("radius_m"), L.radius_m, "metres");
       if (source.voltage_V === undefined) {
-        if (!hasGap) {
+        if (!namedByGap) {
           throw new HazardInputError(
             at("voltage_V"),
-            "a sphere terminal needs a voltage, or a spark gap whose breakdown sets its voltage",
+            "a sphere terminal needs a voltage, or a spark gap connected across it whose breakdown sets its voltage",
           );
         }
       } else {
@@ -140,19 +140,92 @@ export function validateSetupInput(input: unknown): asserts input is SetupInput 
   checkSetupInput(input);
 }
 
-/** validateSetupInput that also hands back each gap's breakdown, computed while checking it. */
-export function checkSetupInput(input: unknown): GapBreakdown[] {
+/** The id the engine gives a source: its own, or "source-N" (1-based) when it has none. */
+export function sourceId(source: unknown, index: number): string {
+  return isRecord(source) && typeof source.id === "string" && source.id !== "" ? source.id : `source-${index + 1}`;
+}
+
+/**
+ * Checks a wiring list (`gaps[i].across`, `bleeders[i].across`): each entry a source id that exists
+ * once, named once. Returns the source indexes it names.
+ */
+function checkAcross(value: unknown, path: Path, ids: readonly string[], required: boolean): number[] {
+  if (value === undefined) {
+    if (required) throw new HazardInputError(path, "must list the ids of the sources it is connected across");
+    return [];
+  }
+  if (!Array.isArray(value)) throw new HazardInputError(path, "must be a list of source ids");
+  if (required && value.length === 0) {
+    throw new HazardInputError(path, "must name at least one source it is connected across");
+  }
+  const seen = new Set<string>();
+  return value.map((entry, j) => {
+    const at = [...path, j];
+    if (typeof entry !== "string") throw new HazardInputError(at, "must be a source id");
+    const matches = ids.flatMap((id, index) => (id === entry ? [index] : []));
+    if (matches.length === 0) {
+      throw new HazardInputError(at, `names "${entry}", which is not a source of this set-up (${ids.join(", ")})`);
+    }
+    if (matches.length > 1) {
+      throw new HazardInputError(
+        at,
+        `names "${entry}", which ${matches.length} sources share: give each source its own id`,
+      );
+    }
+    if (seen.has(entry)) throw new HazardInputError(at, `names "${entry}" twice`);
+    seen.add(entry);
+    return matches[0];
+  });
+}
+
+export type CheckedSetup = {
+  gaps: GapBreakdown[];
+  /** Per gap, the indexes of the sources it is across. */
+  gapAcross: number[][];
+  /** Per bleeder of `bleeders`, the indexes of the sources it is across. */
+  bleederAcross: number[][];
+};
+
+/** validateSetupInput that also hands back each gap's breakdown and the wiring, found while checking. */
+export function checkSetupInput(input: unknown): CheckedSetup {
   if (!isRecord(input)) throw new HazardInputError([], "must be a set-up object with sources");
-  const { sources, gaps } = input;
+  const { sources, gaps, bleeders } = input;
   if (!Array.isArray(sources)) throw new HazardInputError(["sources"], "must be a list of energy sources");
   if (sources.length === 0) throw new HazardInputError(["sources"], "must hold at least one energy source");
   if (gaps !== undefined && !Array.isArray(gaps)) throw new HazardInputError(["gaps"], "must be a list of spark gaps");
+  if (bleeders !== undefined && !Array.isArray(bleeders)) {
+    throw new HazardInputError(["bleeders"], "must be a list of bleeders");
+  }
+  const ids = sources.map((source, index) => sourceId(source, index));
   const gapList = (gaps ?? []) as unknown[];
   const breakdowns = gapList.map((gap, index) => {
     if (!isRecord(gap)) throw new HazardInputError(["gaps", index], "must be a spark gap object");
+    if (gap.id !== undefined && typeof gap.id !== "string") {
+      throw new HazardInputError(["gaps", index, "id"], "must be a string");
+    }
     return gapBreakdown(gap as SparkGap, index);
   });
-  sources.forEach((source, index) => checkSource(source, index, gapList.length > 0));
+  const gapAcross = gapList.map((gap, index) =>
+    checkAcross((gap as Record<string, unknown>).across, ["gaps", index, "across"], ids, false),
+  );
+  const named = new Set(gapAcross.flat());
+  sources.forEach((source, index) => checkSource(source, index, named.has(index)));
+  const bleederAcross = ((bleeders ?? []) as unknown[]).map((bleeder, index) => {
+    const at: Path = ["bleeders", index];
+    if (!isRecord(bleeder)) throw new HazardInputError(at, "must be a bleeder object { resistance_ohm, across }");
+    if (bleeder.id !== undefined && typeof bleeder.id !== "string") {
+      throw new HazardInputError([...at, "id"], "must be a string");
+    }
+    positive(bleeder.resistance_ohm, [...at, "resistance_ohm"], INPUT_LIMITS.resistance_ohm, "ohms");
+    const across = checkAcross(bleeder.across, [...at, "across"], ids, true);
+    for (const [j, sourceIndex] of across.entries()) {
+      const kind = (sources[sourceIndex] as Record<string, unknown>).kind;
+      if (kind === "ac-supply") {
+        throw new HazardInputError([...at, "across", j], "names an AC supply, which stores no charge to bleed");
+      }
+    }
+    return across;
+  });
   if (input.bodyResistance_ohm !== undefined) {
     const r = input.bodyResistance_ohm;
     positive(r, ["bodyResistance_ohm"], INPUT_LIMITS.bodyResistanceMax_ohm, "ohms");
@@ -166,5 +239,5 @@ export function checkSetupInput(input: unknown): GapBreakdown[] {
   if (input.vacuumDevice !== undefined && typeof input.vacuumDevice !== "boolean") {
     throw new HazardInputError(["vacuumDevice"], "must be true or false");
   }
-  return breakdowns;
+  return { gaps: breakdowns, gapAcross, bleederAcross };
 }

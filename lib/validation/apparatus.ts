@@ -57,7 +57,22 @@ export const sourceTextSchema = z.object({
   ...sourceQuantities,
 });
 
-export const gapTextSchema = z.object({ ...gapQuantities });
+/** Source labels (their ids in the engine) a gap or bleeder is connected across. */
+const acrossText = z
+  .array(z.string().max(80, { error: "Use at most 80 characters." }))
+  .max(MAX_SOURCES, { error: `Name at most ${MAX_SOURCES} sources.` });
+
+export const gapTextSchema = z.object({
+  ...gapQuantities,
+  /** Absent in set-ups typed before gaps were wired (engine 1): see upgradeSetupText. */
+  across: acrossText.optional(),
+});
+
+export const bleederTextSchema = z.object({
+  label: z.string().max(80, { error: "Use at most 80 characters for the label." }).default(""),
+  resistance_ohm: quantityText,
+  across: acrossText.default([]),
+});
 
 export const setupTextSchema = z.object({
   sources: z
@@ -68,12 +83,17 @@ export const setupTextSchema = z.object({
     .array(gapTextSchema)
     .max(MAX_GAPS, { error: `Use at most ${MAX_GAPS} spark gaps.` })
     .default([]),
+  bleeders: z
+    .array(bleederTextSchema)
+    .max(MAX_GAPS, { error: `Use at most ${MAX_GAPS} bleeders.` })
+    .default([]),
   bodyResistance_ohm: quantityText,
   vacuumDevice: z.boolean().default(false),
 });
 
 export type SourceText = z.output<typeof sourceTextSchema>;
 export type GapText = z.output<typeof gapTextSchema>;
+export type BleederText = z.output<typeof bleederTextSchema>;
 export type SetupText = z.output<typeof setupTextSchema>;
 
 const name = z

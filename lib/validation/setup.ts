@@ -88,7 +88,16 @@ export const energySourceSchema = z.discriminatedUnion(
   { error: "Choose a source kind: capacitor, custom-capacitance, sphere-terminal, dc-supply or ac-supply." },
 );
 
+const across = z
+  .array(z.string({ error: "Name a source by its id." }).max(200, { error: "Use at most 200 characters." }), {
+    error: "List the ids of the sources it is connected across.",
+  })
+  .max(MAX_SOURCES, { error: `Name at most ${MAX_SOURCES} sources.` });
+
 export const sparkGapSchema = z.strictObject({
+  id,
+  // Which sources the gap is connected across (v2); checked against the source ids by the engine.
+  across: across.optional(),
   // Spheres above 10 m across are not apparatus.
   sphereDiameter_m: positive("sphere diameter in metres", 10),
   spacing_m: positive("gap spacing in metres", MAX_GAP_SPACING_M),
@@ -110,6 +119,16 @@ const setupShape = z.strictObject({
   gaps: z
     .array(sparkGapSchema)
     .max(MAX_GAPS, { error: `Use at most ${MAX_GAPS} spark gaps.` })
+    .optional(),
+  bleeders: z
+    .array(
+      z.strictObject({
+        id,
+        resistance_ohm: positive("bleeder resistance in ohms", L.resistance_ohm),
+        across,
+      }),
+    )
+    .max(MAX_GAPS, { error: `Use at most ${MAX_GAPS} bleeders.` })
     .optional(),
   bodyResistance_ohm: z
     .number({ error: "Enter the body resistance in ohms as a number." })

@@ -56,7 +56,9 @@ function buildSetup(): SetupInput {
   return {
     sources,
     gaps: [
-      { sphereDiameter_m: 0.05, spacing_m: 0.012 },
+      // Engine 2 caps only what a gap is across: the first gap is across every source, so the
+      // voltage-less domes have a ceiling and every source's figures go through the ceiling path.
+      { sphereDiameter_m: 0.05, spacing_m: 0.012, across: sources.map((source) => source.id as string) },
       { sphereDiameter_m: 0.07, spacing_m: 0.02, pressure_Pa: 96_000, temperature_C: 24 },
       { sphereDiameter_m: 0.5, spacing_m: 0.1 },
     ],

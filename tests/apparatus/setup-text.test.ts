@@ -42,7 +42,12 @@ describe("setupToText and setupFromText", () => {
   /** Ids are labels people type (trimmed); a false flag and an empty gap list are the defaults. */
   const plain = setupArb.map((s): SetupInput => {
     const out: SetupInput = { sources: s.sources.map(({ id: _id, ...rest }) => rest as SetupInput["sources"][number]) };
-    if (s.gaps && s.gaps.length > 0) out.gaps = s.gaps;
+    // without labels a source is "source-N" to the engine and to the text form alike
+    const rename = (name: string) =>
+      `source-${s.sources.findIndex((src, i) => (src.id ?? `source-${i + 1}`) === name) + 1}`;
+    if (s.gaps && s.gaps.length > 0) out.gaps = s.gaps.map((g) => ({ ...g, across: (g.across ?? []).map(rename) }));
+    if (s.bleeders && s.bleeders.length > 0)
+      out.bleeders = s.bleeders.map((b) => ({ ...b, across: b.across.map(rename) }));
     if (s.bodyResistance_ohm !== undefined) out.bodyResistance_ohm = s.bodyResistance_ohm;
     if (s.vacuumDevice) out.vacuumDevice = true;
     return out;

@@ -76,12 +76,37 @@ export const gapArb: fc.Arbitrary<SparkGap> = fc.record(
   { requiredKeys: ["sphereDiameter_m", "spacing_m"] },
 );
 
-export const setupArb: fc.Arbitrary<SetupInput> = fc.record(
-  {
-    sources: fc.array(sourceArb, { minLength: 1, maxLength: 5 }),
-    gaps: fc.array(gapArb, { maxLength: 2 }),
-    bodyResistance_ohm: decades(0, 5),
-    vacuumDevice: fc.boolean(),
-  },
-  { requiredKeys: ["sources"] },
-);
+/** Which of up to five sources a gap or bleeder is wired across, as flags by source position. */
+const wiring = fc.array(fc.boolean(), { minLength: 5, maxLength: 5 });
+
+/** The engine's id of each source: its own (made unique by position) or "source-N". */
+export const engineIds = (sources: readonly EnergySource[]) =>
+  sources.map((source, index) => source.id ?? `source-${index + 1}`);
+
+export const setupArb: fc.Arbitrary<SetupInput> = fc
+  .record(
+    {
+      sources: fc.array(sourceArb, { minLength: 1, maxLength: 5 }),
+      gaps: fc.array(fc.tuple(gapArb, wiring), { maxLength: 2 }),
+      bleeders: fc.array(fc.tuple(decades(2, 12), wiring), { maxLength: 2 }),
+      bodyResistance_ohm: decades(0, 5),
+      vacuumDevice: fc.boolean(),
+    },
+    { requiredKeys: ["sources", "gaps", "bleeders"] },
+  )
+  .map(({ sources: raw, gaps, bleeders, ...rest }) => {
+    // Ids must be unique for wiring to name them: an id gets its position appended.
+    const sources = raw.map((source, index) =>
+      source.id === undefined ? source : { ...source, id: `${source.id}#${index}` },
+    );
+    const ids = engineIds(sources);
+    const pick = (flags: boolean[], allow: (source: EnergySource) => boolean) =>
+      ids.filter((_, i) => flags[i] && allow(sources[i]));
+    const setup: SetupInput = { sources, ...rest };
+    if (gaps.length > 0) setup.gaps = gaps.map(([gap, flags]) => ({ ...gap, across: pick(flags, () => true) }));
+    const wired = bleeders
+      .map(([resistance_ohm, flags]) => ({ resistance_ohm, across: pick(flags, (s) => s.kind !== "ac-supply") }))
+      .filter((bleeder) => bleeder.across.length > 0);
+    if (wired.length > 0) setup.bleeders = wired;
+    return setup;
+  });

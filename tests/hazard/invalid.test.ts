@@ -170,7 +170,7 @@ describe("setupInputSchema (POST /api/assess answers 422 with these paths)", () 
         },
         { kind: "ac-supply", voltageRms_V: 230, frequency_Hz: 50, currentLimit_A: 10 },
       ],
-      gaps: [{ sphereDiameter_m: 0.05, spacing_m: 0.01, pressure_Pa: 101325, temperature_C: 20 }],
+      gaps: [{ sphereDiameter_m: 0.05, spacing_m: 0.01, pressure_Pa: 101325, temperature_C: 20, across: ["source-3"] }],
       bodyResistance_ohm: 1000,
       vacuumDevice: false,
     };

@@ -16,6 +16,8 @@ export type Comparison = {
   /** "≥ 250 mJ → tier 2 (Reflex injury)" */
   text: string;
   source: string;
+  /** Entry on the References page, when known. */
+  ref?: string;
   reached: boolean;
   /** The engine's own sentence when the criterion holds. */
   meaning?: string;
@@ -46,7 +48,7 @@ function compare(a: Assessment, criterion: string, text: string, source: string,
   const reason = held(a, criterion);
   // Touch-current and capacitance-level reasons are listed at tier 0 too (within the level).
   const reached = reason ? reason.tier > 0 || fallbackReached : fallbackReached;
-  return { text, source: reason?.source ?? source, reached, meaning: reason?.meaning };
+  return { text, source: reason?.source ?? source, ref: reason?.ref, reached, meaning: reason?.meaning };
 }
 
 const tierName = (tier: number) => `tier ${tier} (${TIER_LABELS[tier as Tier]})`;
@@ -70,6 +72,7 @@ export function figureRows(a: Assessment, setup: SetupInput | null, rules: TierR
       {
         text: `≤ ${q(ts.dcVoltage.value, "V")} DC or ≤ ${q(ts.acVoltageRms.value, "V")} rms is touch-safe whatever is stored`,
         source: ts.dcVoltage.source,
+        ref: ts.dcVoltage.ref,
         reached: a.maxVoltage_V <= ts.dcVoltage.value,
         meaning: (held(a, "touch-safe-voltage-dc") ?? held(a, "touch-safe-voltage-ac"))?.meaning,
       },
@@ -90,7 +93,15 @@ export function figureRows(a: Assessment, setup: SetupInput | null, rules: TierR
         value: `${q(g.sphereDiameter_m, "m")} spheres, ${q(g.spacing_m, "m")} apart`,
       })),
       comparisons: gap
-        ? [{ text: "Lowest breakdown of the gaps", source: gap.source, reached: true, meaning: gap.meaning }]
+        ? [
+            {
+              text: "Lowest breakdown of the gaps",
+              source: gap.source,
+              ref: gap.ref,
+              reached: true,
+              meaning: gap.meaning,
+            },
+          ]
         : [],
       decides: false,
     });
@@ -224,24 +235,28 @@ export function figureRows(a: Assessment, setup: SetupInput | null, rules: TierR
               criterion: "touch-current-dc",
               text: `> ${q(ts.dcCurrent.value, "A")} DC → ${tierName(1)}`,
               source: ts.dcCurrent.source,
+              ref: ts.dcCurrent.ref,
               tier: 1,
             },
             {
               criterion: "let-go-current-dc",
               text: `≥ ${q(rules.reflex.dcCurrent.value, "A")} DC → ${tierName(2)}`,
               source: rules.reflex.dcCurrent.source,
+              ref: rules.reflex.dcCurrent.ref,
               tier: 2,
             },
             {
               criterion: "fibrillation-current-dc",
               text: `≥ ${q(rules.lethal.dcCurrent.value, "A")} DC at ≥ ${q(rules.lethal.dcMinVoltage.value, "V")} → ${tierName(3)}`,
               source: rules.lethal.dcCurrent.source,
+              ref: rules.lethal.dcCurrent.ref,
               tier: 3,
             },
             {
               criterion: "arc-current-dc",
               text: `current limit ≥ ${q(rules.arc.dcCurrentLimit.value, "A")} at ≥ ${q(rules.arc.dcMinVoltage.value, "V")} → ${tierName(4)}`,
               source: rules.arc.dcCurrentLimit.source,
+              ref: rules.arc.dcCurrentLimit.ref,
               tier: 4,
             },
           ]
@@ -252,18 +267,21 @@ export function figureRows(a: Assessment, setup: SetupInput | null, rules: TierR
               criterion: "touch-current-ac",
               text: `> ${q(ts.acCurrentRms.value, "A")} rms → ${tierName(1)}`,
               source: ts.acCurrentRms.source,
+              ref: ts.acCurrentRms.ref,
               tier: 1,
             },
             {
               criterion: "let-go-current-ac",
               text: `≥ ${q(rules.reflex.acCurrentRms.value, "A")} rms → ${tierName(2)}`,
               source: rules.reflex.acCurrentRms.source,
+              ref: rules.reflex.acCurrentRms.ref,
               tier: 2,
             },
             {
               criterion: "fibrillation-current-ac",
               text: `≥ ${q(rules.lethal.acCurrentRms.value, "A")} rms at ≥ ${q(rules.lethal.acMinVoltageRms.value, "V")} rms → ${tierName(3)}`,
               source: rules.lethal.acCurrentRms.source,
+              ref: rules.lethal.acCurrentRms.ref,
               tier: 3,
             },
           ]
@@ -290,6 +308,7 @@ export function figureRows(a: Assessment, setup: SetupInput | null, rules: TierR
       {
         text: `Safe at or below ${q(rules.safeVoltage.value, "V")}`,
         source: rules.safeVoltage.source,
+        ref: rules.safeVoltage.ref,
         reached: a.timeToSafe_s === 0,
       },
     ],

@@ -1,6 +1,6 @@
 import { useId } from "react";
 import type { Assessment, SetupInput, TierRules } from "@/lib/hazard";
-import { formatQuantity } from "@/lib/hazard";
+import { formatQuantity, readableSource, referenceAnchor } from "@/lib/hazard";
 import { AboutFigures } from "../about-figures";
 import { cx } from "../cx";
 import { TIER_CLASSES, type Tier } from "../tier";
@@ -11,6 +11,17 @@ import { figureRows, type FigureRow } from "./figures";
 // the thresholds it was compared with (each with its source) on expand, the flags, the figures per
 // source, and the note about the figures. No hooks: it renders on the server (apparatus page) and in the form.
 
+/** A source as a reader can follow it: publication and clause, linked to its References entry. */
+export function SourceText({ source, refId }: { source: string; refId?: string }) {
+  const text = readableSource(source);
+  if (!refId) return <>{text}</>;
+  return (
+    <a href={`/references#${referenceAnchor(refId)}`} className="underline decoration-dotted underline-offset-2">
+      {text}
+    </a>
+  );
+}
+
 const FLAG_TITLES: Record<string, string> = {
   thermal: "Burn hazard",
   "x-ray": "X-rays",
@@ -18,6 +29,8 @@ const FLAG_TITLES: Record<string, string> = {
   ignition: "Ignition",
   overvoltage: "Over-voltage",
   "no-bleeder": "No bleeder",
+  "discharge-time": "Slow discharge",
+  implausible: "Check this figure",
 };
 
 type TierResultProps = {
@@ -54,7 +67,10 @@ export function TierResult({ assessment: a, setup, rules, headingLevel = 2, clas
           <ul className="mt-2 list-disc space-y-1 pl-5 text-sm text-stone-800">
             {deciding.map((r) => (
               <li key={r.criterion}>
-                {r.meaning} <span className="text-stone-600">Source: {r.source}.</span>
+                {r.meaning}{" "}
+                <span className="text-stone-600">
+                  Source: <SourceText source={r.source} refId={r.ref} />.
+                </span>
               </li>
             ))}
           </ul>
@@ -81,13 +97,15 @@ export function TierResult({ assessment: a, setup, rules, headingLevel = 2, clas
             Flags
           </H>
           <ul className="mt-2 flex flex-col gap-2">
-            {a.flags.map((f) => (
+            {a.flags.map((f, i) => (
               <li
-                key={f.code}
+                key={`${f.code}-${i}`}
                 className="rounded-md border border-amber-300 bg-amber-50 px-3 py-2 text-sm text-amber-950"
               >
                 <span className="font-semibold">{FLAG_TITLES[f.code] ?? f.code}.</span> {f.message}{" "}
-                <span className="text-amber-900">Source: {f.source}.</span>
+                <span className="text-amber-900">
+                  Source: <SourceText source={f.source} refId={f.ref} />.
+                </span>
               </li>
             ))}
           </ul>
@@ -191,7 +209,9 @@ function FigureItem({ row }: { row: FigureRow }) {
                     </span>
                     {c.text}
                     {c.meaning && <span className="block text-stone-700">{c.meaning}</span>}
-                    <span className="block text-xs text-stone-600">Source: {c.source}</span>
+                    <span className="block text-xs text-stone-600">
+                      Source: <SourceText source={c.source} refId={c.ref} />
+                    </span>
                   </li>
                 ))}
               </ul>

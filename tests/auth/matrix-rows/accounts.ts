@@ -53,6 +53,8 @@ export const ACCOUNT_ROWS: MatrixRow[] = [
     expect: everyone(200),
   },
   { route: "/account", method: "PAGE", expect: signedIn(200, "→/sign-in") },
+  // the list of publications behind the hazard engine's thresholds (issue 12)
+  { route: "/references", method: "PAGE", expect: signedIn(200, "→/sign-in") },
   { route: "/forbidden", method: "PAGE", expect: signedIn(200, "→/sign-in") },
   { route: "/admin/users", method: "PAGE", expect: adminOnly(200, "→/sign-in", "→/forbidden") },
   // The hazard engine over HTTP: any signed-in user.

@@ -6,13 +6,14 @@ import { Card } from "@/app/_components/card";
 import { DataTable } from "@/app/_components/data-table";
 import { formatDateTime, isoDate } from "@/app/_components/format";
 import { TierResult } from "@/app/_components/hazard/tier-result";
+import { WayDownList } from "@/app/_components/hazard/way-down-list";
 import { PageHeader } from "@/app/_components/page-header";
 import type { Tier } from "@/app/_components/tier";
 import { TierBadge } from "@/app/_components/tier-badge";
 import { getApparatus } from "@/lib/apparatus/queries";
 import { GAP_FIELDS, SOURCE_FIELDS } from "@/lib/apparatus/setup-text";
 import { can, requirePageUser } from "@/lib/auth/guards";
-import { assessSetup, BASE_UNIT, formatQuantity, type EnergySource } from "@/lib/hazard";
+import { assessSetup, BASE_UNIT, formatQuantity, upgradeSetup, type EnergySource } from "@/lib/hazard";
 import { currentTierRules } from "@/lib/hazard-rules";
 import { AppError } from "@/lib/http/errors";
 import { SOURCE_KIND_LABELS } from "@/lib/validation/apparatus";
@@ -48,8 +49,11 @@ export default async function ApparatusPage({ params }: PageProps) {
   const { user, apparatus } = await load(id);
   const current = apparatus.current;
   const rules = await currentTierRules();
-  // The figures under the rules in force now; the stored revision keeps the ones it was saved with.
-  const live = assessSetup(current.setup, rules);
+  // The figures under the rules and engine in force now; the stored revision keeps the ones it was
+  // saved with. A revision saved before gaps were wired has its gaps set across its voltage-less
+  // sphere terminals only, and the page asks for the wiring to be confirmed by editing.
+  const { setup, rewired } = upgradeSetup(current.setup);
+  const live = assessSetup(setup, rules);
   const changedSinceSaved = live.tier !== current.tier;
 
   return (
@@ -85,7 +89,20 @@ export default async function ApparatusPage({ params }: PageProps) {
                 tier {live.tier}.
               </p>
             )}
-            <TierResult assessment={live} setup={current.setup} rules={rules} headingLevel={3} />
+            {rewired && (
+              <p role="status" className="mb-3 rounded border border-amber-300 bg-amber-50 p-2 text-sm text-amber-950">
+                This revision was saved before each spark gap said which sources it is connected across. Its gaps are
+                now taken as connected across the sphere terminals that have no voltage of their own, and across nothing
+                else.{" "}
+                {apparatus.canEdit
+                  ? "Edit the apparatus to confirm the wiring."
+                  : "Ask its owner to confirm the wiring."}
+              </p>
+            )}
+            <TierResult assessment={live} setup={setup} rules={rules} headingLevel={3} />
+            <div className="mt-4">
+              <WayDownList assessment={live} setup={setup} rules={rules} />
+            </div>
           </Card>
         </div>
         <div className="flex min-w-0 flex-col gap-6">
@@ -104,7 +121,7 @@ export default async function ApparatusPage({ params }: PageProps) {
               <>
                 <h3 className="mt-3 text-sm font-semibold text-stone-900">Spark gaps</h3>
                 <ul className="mt-1 flex flex-col gap-1 text-sm">
-                  {(current.setup.gaps ?? []).map((g, i) => (
+                  {(setup.gaps ?? []).map((g, i) => (
                     <li key={i} className="figure text-xs text-stone-700">
                       {GAP_FIELDS.filter((spec) => g[spec.name] !== undefined)
                         .map(
@@ -112,6 +129,8 @@ export default async function ApparatusPage({ params }: PageProps) {
                             `${spec.label}: ${formatQuantity(g[spec.name] as number, BASE_UNIT[spec.dimension])}`,
                         )
                         .join(" · ")}
+                      {" · connected across: "}
+                      {g.across && g.across.length > 0 ? g.across.join(", ") : "nothing"}
                     </li>
                   ))}
                 </ul>

@@ -3,6 +3,7 @@
 import { Alert } from "@/app/_components/alert";
 import { AboutFigures } from "@/app/_components/about-figures";
 import { TierResult } from "@/app/_components/hazard/tier-result";
+import { WayDownList } from "@/app/_components/hazard/way-down-list";
 import type { LiveAssessment } from "@/app/_components/hazard/use-live-assessment";
 import type { TierRules } from "@/lib/hazard";
 
@@ -18,5 +19,10 @@ export function ResultStep({ live, rules }: { live: LiveAssessment; rules: TierR
       </div>
     );
   }
-  return <TierResult assessment={live.assessment} setup={live.setup} rules={rules} headingLevel={3} />;
+  return (
+    <div className="flex flex-col gap-4">
+      <TierResult assessment={live.assessment} setup={live.setup} rules={rules} headingLevel={3} />
+      <WayDownList assessment={live.assessment} setup={live.setup} rules={rules} />
+    </div>
+  );
 }
