@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import { assessSetup, INPUT_LIMITS, TIER_LABELS, type EnergySource, type SetupInput } from "@/lib/hazard";
+import { assessSetup, gapBreakdown, INPUT_LIMITS, TIER_LABELS, type EnergySource, type SetupInput } from "@/lib/hazard";
 import { decades, setupArb } from "./arbitraries";
 import { expectWithin, numbersIn } from "./support";
 
@@ -99,7 +99,14 @@ describe("every valid set-up", () => {
         expect(result.tierLabel).toBe(TIER_LABELS[result.tier]);
         expect(Math.max(...result.reasons.map((r) => r.tier))).toBe(result.tier);
         for (const source of result.perSource) expect(source.tier).toBeLessThanOrEqual(result.tier);
-        if (result.gapCeiling_V !== null) expect(result.maxVoltage_V).toBeLessThanOrEqual(result.gapCeiling_V);
+        // v2: a gap caps only the sources it is across, at the upper bound of its breakdown
+        for (const gap of input.gaps ?? []) {
+          const bound = gapBreakdown(gap).bound_V;
+          for (const id of gap.across ?? []) {
+            const source = result.perSource.find((s) => s.id === id);
+            expect(source?.voltage_V).toBeLessThanOrEqual(bound);
+          }
+        }
       }),
       RUNS,
     );
