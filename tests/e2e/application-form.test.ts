@@ -120,7 +120,8 @@ describe("the six-step application form, in a real browser", () => {
       await energy.locator("summary").click();
       expect(await energy.textContent()).toContain("E = ½·C·V²");
       expect(await energy.textContent()).toContain("Reached: ≥ 250 mJ → tier 2 (Reflex injury)");
-      expect(await energy.textContent()).toMatch(/Source: capacitor discharge guideline/);
+      // v2: sources name the publication (issue 12), no longer a short label
+      expect(await energy.textContent()).toMatch(/Source: Discharge of Capacitors/);
       expect(await page.getByRole("note", { name: "About these figures" }).isVisible()).toBe(true);
       await expectNoSeriousViolations(page, "step 3");
 
