@@ -48,6 +48,8 @@ export const permits = pgTable(
     validFrom: date({ mode: "string" }).notNull(),
     validTo: date({ mode: "string" }).notNull(),
     conditions: jsonb().$type<string[]>().notNull().default([]),
+    // Why the window reaches beyond the event days the application asked for (null: it does not).
+    validityReason: text(),
     // ≥ 128-bit random code behind the QR code (base64url); never sequential.
     verificationCode: text().notNull().unique(),
     issuedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),

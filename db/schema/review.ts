@@ -1,4 +1,4 @@
-import { index, integer, jsonb, pgEnum, pgTable, smallint, text, timestamp, unique, uuid } from "drizzle-orm/pg-core";
+import { date, index, integer, jsonb, pgEnum, pgTable, smallint, text, timestamp, unique, uuid } from "drizzle-orm/pg-core";
 import { applicationRevisions, applications } from "./applications";
 import { users } from "./users";
 
@@ -34,6 +34,11 @@ export const decisions = pgTable(
     // Optional pin of a return comment to a form step or field path ("event.firstDay").
     pinnedTo: text(),
     conditions: jsonb().$type<string[]>(),
+    // The validity window an approval signs (inclusive institution days), and the approver's reason
+    // when it reaches beyond the application's event days. Null on every other kind of decision.
+    validFrom: date({ mode: "string" }),
+    validTo: date({ mode: "string" }),
+    validityReason: text(),
     signedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [

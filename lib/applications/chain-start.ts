@@ -4,7 +4,7 @@ import { applicationRevisions, applications, type Application, type Permit } fro
 import { writeAudit, type Tx } from "@/lib/audit";
 import { conflict } from "@/lib/http/errors";
 import { queueMail } from "@/lib/mail/outbox";
-import { addDays } from "@/lib/permits/dates";
+import { defaultValidity, eventDaysOf, widensEvent } from "@/lib/permits/dates";
 import { issuePermit } from "@/lib/permits/actions";
 import { institutionToday } from "@/lib/permits/queries";
 import { tierChain } from "@/lib/rules/chain";
@@ -20,7 +20,7 @@ import { transition } from "./state";
  * Call inside the submitting transaction, right after the draft/returned → submitted transition.
  * Binds the application to the chain rules in force when it has none yet, and when its tier's chain
  * has no signers (tier 0 by default) records it as self-certified: approved at once, with a permit
- * for the tier's longest validity. Returns the application as it now stands and the permit, if any.
+ * for the event days. Returns the application as it now stands and the permit, if any.
  */
 export async function afterSubmit(
   tx: Tx,
@@ -59,6 +59,7 @@ async function selfCertify(
       id: applicationRevisions.id,
       tier: applicationRevisions.tier,
       contentHash: applicationRevisions.contentHash,
+      content: applicationRevisions.content,
     })
     .from(applicationRevisions)
     .where(eq(applicationRevisions.id, application.currentRevisionId!));
@@ -71,8 +72,12 @@ async function selfCertify(
     set: { waitingSince: null, decidedAt: now },
   });
   const today = await institutionToday(now, tx);
-  const validFrom = today;
-  const validTo = addDays(today, validityDays - 1);
+  // The event days, as for an approval; nobody signs here, so nothing may widen them.
+  const event = eventDaysOf(revision.content);
+  const { validFrom, validTo } = defaultValidity(event, validityDays, today);
+  const validityReason = widensEvent({ validFrom, validTo }, event)
+    ? "Recorded after the event's last day had passed in the institution's time zone."
+    : null;
   const permit = await issuePermit(tx, {
     applicationId: application.id,
     revisionId: revision.id,
@@ -80,6 +85,7 @@ async function selfCertify(
     tier: revision.tier,
     validFrom,
     validTo,
+    validityReason,
     conditions: [],
     today,
     actor,

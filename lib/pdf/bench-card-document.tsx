@@ -1,6 +1,6 @@
 import { Document, Page, Text, View } from "@react-pdf/renderer";
 import { formatQuantity } from "@/lib/hazard";
-import { dischargeSteps, printDay } from "./content";
+import { dischargeSteps, printAudience, printDay, printDays } from "./content";
 import {
   AboutFiguresBox,
   EmergencyContacts,
@@ -85,6 +85,10 @@ export function BenchCardDocument({
               </Text>
             </View>
             <Text style={{ fontSize: 10, color: INK.body, marginTop: 6 }}>Holder: {data.holderName}</Text>
+            <Text style={{ fontSize: 10, color: INK.body, marginTop: 2 }}>
+              Event: {printDays(data.event.firstDay, data.event.lastDay)} · Audience:{" "}
+              {printAudience(data.event.audienceLabel, data.event.audienceSize)}
+            </Text>
           </View>
           <QrBlock
             dataUrl={qr}

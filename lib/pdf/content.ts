@@ -19,6 +19,20 @@ export function printDay(isoDay: string): string {
   return `${d} ${MONTHS[m - 1]} ${y}`;
 }
 
+/** The event days: "15 Jan 2027" for one day, "15 Jan 2027 – 17 Jan 2027" for several. */
+export function printDays(firstDay: string, lastDay: string): string {
+  if (!firstDay) return "—";
+  if (!lastDay || lastDay === firstDay) return printDay(firstDay);
+  return `${printDay(firstDay)} – ${printDay(lastDay)}`;
+}
+
+/** "80 members of the public", "40 students", "no audience": the audience as a person reads it. */
+export function printAudience(audienceLabel: string, audienceSize: number): string {
+  if (!audienceLabel) return "—";
+  if (audienceLabel === "No audience" || audienceSize <= 0) return audienceLabel;
+  return `${audienceSize} ${audienceLabel.toLowerCase()}`;
+}
+
 /** "2026-03-12 14:05 UTC": signatures are printed in UTC so every reader sees the same time. */
 export function printUtc(iso: string): string {
   const date = new Date(iso);
@@ -169,6 +183,27 @@ export function gapLines(gaps: SparkGap[] | undefined): string[] {
   });
 }
 
+/**
+ * The voltage a test probe must be rated for: the highest voltage anything is charged toward, as set
+ * up, not the lower figure a spark gap limits it to. A gap that fails to break down (dirty spheres,
+ * moved electrodes, humid air) lets a bank reach its charging voltage, so the probe must survive that
+ * (common practice: rate test equipment for the highest voltage that can be present). AC as its
+ * crest, √2·V_rms; a terminal with no voltage of its own counts at the gap-limited figure.
+ */
+export function probeRating_V(setup: SetupInput, assessment: Assessment): number {
+  let highest = assessment.maxVoltage_V;
+  for (const source of setup.sources) {
+    const v =
+      source.kind === "ac-supply"
+        ? source.voltageRms_V * Math.SQRT2
+        : "voltage_V" in source && typeof source.voltage_V === "number"
+          ? source.voltage_V
+          : 0;
+    if (Number.isFinite(v) && v > highest) highest = v;
+  }
+  return highest;
+}
+
 const STORES_ENERGY = new Set<EnergySource["kind"]>(["capacitor", "custom-capacitance", "sphere-terminal"]);
 
 function listNames(names: string[]): string {
@@ -209,7 +244,7 @@ export function dischargeSteps(setup: SetupInput, assessment: Assessment): strin
     steps.push("Leave the hook or a shorting link on every capacitor while anyone works on the set-up.");
   }
   steps.push(
-    `Check with a probe rated for ${formatQuantity(assessment.maxVoltage_V, "V")} that nothing is above ${SAFE_VOLTAGE_V} V before touching.`,
+    `Check with a probe rated for ${formatQuantity(probeRating_V(setup, assessment), "V")} that nothing is above ${SAFE_VOLTAGE_V} V before touching.`,
   );
   if (stores.length) steps.push("After any pause, ground again: capacitors recover charge on their own.");
   return steps;

@@ -24,7 +24,7 @@ import type { PrintData } from "./types";
 // under an older shape still prints rather than failing at the bench.
 
 /** Bump when the printed layout changes so stored files are rendered again. */
-export const LAYOUT_VERSION = 1;
+export const LAYOUT_VERSION = 2;
 
 const DEFAULT_INSTITUTION = "Benchclear";
 
@@ -92,6 +92,7 @@ export async function loadPrintData(permitId: string, now: Date = new Date()): P
       tier: permits.tier,
       validFrom: permits.validFrom,
       validTo: permits.validTo,
+      validityReason: permits.validityReason,
       issuedAt: permits.issuedAt,
       revokedAt: permits.revokedAt,
       revokedReason: permits.revokedReason,
@@ -137,7 +138,11 @@ export async function loadPrintData(permitId: string, now: Date = new Date()): P
 
   return {
     layoutVersion: LAYOUT_VERSION,
-    institution: { name: settings.name, emergencyContacts: settings.emergencyContacts },
+    institution: {
+      name: settings.name,
+      emergencyContacts: settings.emergencyContacts,
+      timeZone: settings.timeZone,
+    },
     permit: {
       number: row.number,
       state: effectivePermitState(row, todayIn(settings.timeZone, now)),
@@ -145,6 +150,7 @@ export async function loadPrintData(permitId: string, now: Date = new Date()): P
       tierLabel: assessment.tier === tier && assessment.tierLabel ? assessment.tierLabel : TIER_LABELS[tier],
       validFrom: row.validFrom,
       validTo: row.validTo,
+      validityReason: row.validityReason,
       issuedAt: row.issuedAt.toISOString(),
       revokedOn: row.revokedAt ? todayIn(settings.timeZone, row.revokedAt) : null,
       revokedReason: row.revokedReason,
@@ -159,6 +165,8 @@ export async function loadPrintData(permitId: string, now: Date = new Date()): P
       room: str(event.room),
       audienceLabel: AUDIENCE_LABELS[audience] ?? "",
       audienceSize: typeof event.audienceSize === "number" ? event.audienceSize : 0,
+      firstDay: str(event.firstDay),
+      lastDay: str(event.lastDay),
       responsible: str(obj(event.responsible).name) || row.holderName,
       operators: arr(event.operators).map((o) => ({ name: str(obj(o).name), trained: obj(o).trained === true })),
     },

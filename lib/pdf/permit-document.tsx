@@ -4,7 +4,9 @@ import {
   dischargeSteps,
   decidingReasons,
   gapLines,
+  printAudience,
   printDay,
+  printDays,
   printUtc,
   sourceLines,
   tierFigures,
@@ -191,6 +193,11 @@ export function PermitDocument({ data, size, qr }: { data: PrintData; size: Pape
                 <Text style={{ fontSize: 14, fontWeight: 700, color: INK.text }}>
                   {printDay(permit.validFrom)} – {printDay(permit.validTo)}
                 </Text>
+                {permit.validityReason ? (
+                  <Text style={{ fontSize: 8.5, color: INK.body, maxWidth: 300 }}>
+                    Beyond the event days because: {permit.validityReason}
+                  </Text>
+                ) : null}
               </View>
             </View>
           </View>
@@ -213,6 +220,15 @@ export function PermitDocument({ data, size, qr }: { data: PrintData; size: Pape
           <Fact label="Permit holder" value={data.holderName} />
           <Fact label="Responsible person" value={data.event.responsible} />
           <Fact label="Operators" value={operators.length ? operators.join(", ") : "the holder"} flex={1.3} />
+        </View>
+        <View style={{ flexDirection: "row", marginTop: 6, paddingBottom: 8, ...s.rule }}>
+          <Fact
+            label={data.event.kindLabel ? `Event days (${data.event.kindLabel})` : "Event days"}
+            value={printDays(data.event.firstDay, data.event.lastDay)}
+            flex={1.3}
+          />
+          <Fact label="Audience" value={printAudience(data.event.audienceLabel, data.event.audienceSize)} />
+          <Fact label="Apparatus" value={data.apparatus.name || "—"} flex={1.7} />
         </View>
 
         <Section title="The figures that set the tier">

@@ -24,7 +24,7 @@ export type PrintControl = { text: string; confirmed: boolean; note: string };
 export type PrintData = {
   /** Bumped when the printed layout changes in a way that should re-render stored files. */
   layoutVersion: number;
-  institution: { name: string; emergencyContacts: EmergencyContact[] };
+  institution: { name: string; emergencyContacts: EmergencyContact[]; timeZone: string };
   permit: {
     number: string;
     /** The effective state when the snapshot was taken (expired once validTo has passed). */
@@ -33,6 +33,8 @@ export type PrintData = {
     tierLabel: string;
     validFrom: string;
     validTo: string;
+    /** Why the window reaches beyond the event days; null when it does not. */
+    validityReason: string | null;
     /** ISO 8601, UTC. */
     issuedAt: string;
     revokedOn: string | null;
@@ -48,6 +50,9 @@ export type PrintData = {
     room: string;
     audienceLabel: string;
     audienceSize: number;
+    /** The event days the application asked for (ISO days; empty when a revision has none). */
+    firstDay: string;
+    lastDay: string;
     responsible: string;
     operators: { name: string; trained: boolean }[];
   };

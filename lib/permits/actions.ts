@@ -38,6 +38,8 @@ export type IssueInput = {
   tier: number;
   validFrom: string;
   validTo: string;
+  /** Why the window reaches beyond the event days (null: it does not). */
+  validityReason?: string | null;
   conditions: string[];
   /** The institution's calendar day of issue: its year numbers the permit. */
   today: string;
@@ -60,6 +62,7 @@ export async function issuePermit(tx: Tx, input: IssueInput): Promise<Permit> {
       tier: input.tier,
       validFrom: input.validFrom,
       validTo: input.validTo,
+      validityReason: input.validityReason ?? null,
       conditions: input.conditions,
       verificationCode: newVerificationCode(),
       issuedAt: input.now,
@@ -77,6 +80,7 @@ export async function issuePermit(tx: Tx, input: IssueInput): Promise<Permit> {
       tier: input.tier,
       validFrom: input.validFrom,
       validTo: input.validTo,
+      validityReason: input.validityReason ?? null,
       conditions: input.conditions,
     },
   });

@@ -51,6 +51,45 @@ export function daysFromTo(today: string, day: string): number {
  */
 export function effectivePermitState(permit: { state: PermitState; validTo: string }, today: string): PermitState {
   if (permit.state === "revoked") return "revoked";
-  if (permit.validTo < today) return "expired";
+  // Stored only by the daily job once the last day has passed (possibly run with a moved clock, as
+  // `npm run clock` does): an expired permit never becomes active again.
+  if (permit.state === "expired" || permit.validTo < today) return "expired";
   return "active";
+}
+
+/** The days an application asks for (its event's first and last day), when both are real dates. */
+export type EventDays = { firstDay: string; lastDay: string };
+
+export function eventDaysOf(content: unknown): EventDays | null {
+  const event = (content as { event?: { firstDay?: unknown; lastDay?: unknown } } | null)?.event;
+  const firstDay = typeof event?.firstDay === "string" ? event.firstDay : "";
+  const lastDay = typeof event?.lastDay === "string" ? event.lastDay : "";
+  if (!isIsoDay(firstDay) || !isIsoDay(lastDay) || lastDay < firstDay) return null;
+  return { firstDay, lastDay };
+}
+
+/**
+ * The window a permit gets when nobody changes it: the event days, from today at the earliest (a
+ * permit never starts in the past), cut to the tier's longest validity. A permit is for the event it
+ * was asked for, not for the tier's longest allowance. Without event days: from today for the longest
+ * validity (only a revision frozen under an older shape has none).
+ */
+export function defaultValidity(
+  event: EventDays | null,
+  validityDays: number,
+  today: string,
+): { validFrom: string; validTo: string } {
+  if (!event) return { validFrom: today, validTo: addDays(today, validityDays - 1) };
+  const validFrom = event.firstDay > today ? event.firstDay : today;
+  const longest = addDays(validFrom, validityDays - 1);
+  let validTo = event.lastDay < longest ? event.lastDay : longest;
+  // The event is over before it could start: a one-day window, which the approver must widen with a reason.
+  if (validTo < validFrom) validTo = validFrom;
+  return { validFrom, validTo };
+}
+
+/** Whether a window reaches beyond the event days (then the approver must give a reason). */
+export function widensEvent(window: { validFrom: string; validTo: string }, event: EventDays | null): boolean {
+  if (!event) return false;
+  return window.validFrom < event.firstDay || window.validTo > event.lastDay;
 }

@@ -31,7 +31,7 @@ export async function institutionToday(now: Date = new Date(), tx: DbOrTx = db):
 
 /** The effective state as SQL, for filtering and sorting lists. */
 export function effectiveStateSql(today: string): SQL<PermitState> {
-  return sql<PermitState>`(CASE WHEN ${permits.state} = 'revoked' THEN 'revoked' WHEN ${permits.validTo} < ${today}::date THEN 'expired' ELSE 'active' END)`;
+  return sql<PermitState>`(CASE WHEN ${permits.state} = 'revoked' THEN 'revoked' WHEN ${permits.state} = 'expired' OR ${permits.validTo} < ${today}::date THEN 'expired' ELSE 'active' END)`;
 }
 
 /** The permits a user may see, as a WHERE condition (never undefined: a user is required first). */
@@ -154,6 +154,7 @@ export async function getPermit(user: CurrentUser, id: string, now = new Date())
         state: permits.state,
         validFrom: permits.validFrom,
         validTo: permits.validTo,
+        validityReason: permits.validityReason,
         conditions: permits.conditions,
         verificationCode: permits.verificationCode,
         issuedAt: permits.issuedAt,

@@ -17,7 +17,15 @@ import { writeAudit, type DbOrTx, type Tx } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
 import { AppError, conflict, forbidden, invalidField, notFound } from "@/lib/http/errors";
 import { queueMail } from "@/lib/mail/outbox";
-import { addDays, inclusiveDays, isIsoDay } from "@/lib/permits/dates";
+import {
+  addDays,
+  defaultValidity,
+  eventDaysOf,
+  inclusiveDays,
+  isIsoDay,
+  widensEvent,
+  type EventDays,
+} from "@/lib/permits/dates";
 import { issuePermit } from "@/lib/permits/actions";
 import { institutionToday } from "@/lib/permits/queries";
 import { STEP_ROLE_LABELS, tierChain, type ChainRules } from "@/lib/rules/chain";
@@ -95,29 +103,46 @@ async function safetyOfficerEmails(tx: Tx, except: readonly string[]): Promise<s
   return rows.filter((r) => !except.includes(r.id)).map((r) => r.email);
 }
 
-export type ValidityWindow = { validFrom: string; validTo: string };
+export type ValidityWindow = { validFrom: string; validTo: string; reason: string | null };
 
 /**
- * The permit's window: by default from today for the tier's longest validity; an approver may start
- * it later (up to a year ahead) or end it sooner, never make it longer. Days are inclusive.
+ * The permit's window. By default the application's event days (from today at the earliest, cut to
+ * the tier's longest validity: lib/permits/dates defaultValidity). The approver may narrow it freely;
+ * a window reaching beyond the event days needs a reason, which is stored on the permit, printed, and
+ * signed with the approval. Never longer than the tier's longest validity, never starting in the past.
+ * Days are inclusive.
  */
 export function validityWindow(
-  input: { validFrom?: string; validTo?: string },
+  input: { validFrom?: string; validTo?: string; validityReason?: string },
   validityDays: number,
   today: string,
+  event: EventDays | null = null,
 ): ValidityWindow {
-  const validFrom = input.validFrom ?? today;
+  const fallback = defaultValidity(event, validityDays, today);
+  const validFrom = input.validFrom ?? fallback.validFrom;
   if (!isIsoDay(validFrom)) throw invalidField("validFrom", "Enter a real date (YYYY-MM-DD).");
   if (validFrom < today) throw invalidField("validFrom", "A permit cannot start before today.");
   if (validFrom > addDays(today, 365)) throw invalidField("validFrom", "A permit must start within a year.");
-  const validTo = input.validTo ?? addDays(validFrom, validityDays - 1);
+  const validTo =
+    input.validTo ??
+    (input.validFrom === undefined ? fallback.validTo : defaultValidity(event, validityDays, validFrom).validTo);
   if (!isIsoDay(validTo)) throw invalidField("validTo", "Enter a real date (YYYY-MM-DD).");
   if (validTo < validFrom) throw invalidField("validTo", "The last day is before the first day.");
   const days = inclusiveDays(validFrom, validTo);
   if (days > validityDays) {
     throw invalidField("validTo", `This tier allows at most ${validityDays} days; this window is ${days} days.`);
   }
-  return { validFrom, validTo };
+  const reason = input.validityReason?.trim() ?? "";
+  if (event && widensEvent({ validFrom, validTo }, event)) {
+    if (!reason) {
+      throw invalidField(
+        "validityReason",
+        `The event runs ${event.firstDay} to ${event.lastDay}. Give the reason for a window beyond those days.`,
+      );
+    }
+    return { validFrom, validTo, reason };
+  }
+  return { validFrom, validTo, reason: null };
 }
 
 export type DecisionResult = { application: Application; decision: Decision; permit: Permit | null };
@@ -167,7 +192,7 @@ export async function decide(
       );
     }
     today = await institutionToday(now);
-    window = validityWindow(body, chain.validityDays, today);
+    window = validityWindow(body, chain.validityDays, today, eventDaysOf(revision.content));
     conditions = [...chain.requirements.map((r) => r.text), ...body.extraConditions];
   }
   if (body.kind === "approve" || body.kind === "reject") await verifySignerPassword(actor, body.password, ctx);
@@ -209,6 +234,9 @@ export async function decide(
           comment: body.comment || null,
           pinnedTo: body.kind === "return" ? body.pinnedTo || null : null,
           conditions: body.kind === "approve" ? conditions : null,
+          validFrom: window?.validFrom ?? null,
+          validTo: window?.validTo ?? null,
+          validityReason: window?.reason ?? null,
           signedAt: now,
         })
         .returning();
@@ -222,6 +250,7 @@ export async function decide(
           tier: revision.tier,
           validFrom: window.validFrom,
           validTo: window.validTo,
+          validityReason: window.reason,
           conditions,
           today,
           actor,
@@ -245,6 +274,7 @@ export async function decide(
           to: updated.state,
           ...(decision.pinnedTo ? { pinnedTo: decision.pinnedTo } : {}),
           ...(permit ? { permitId: permit.id, permitNumber: permit.number } : {}),
+          ...(window ? { validFrom: window.validFrom, validTo: window.validTo, validityReason: window.reason } : {}),
         },
       });
 

@@ -42,6 +42,8 @@ export const decisionBodySchema = z.discriminatedUnion("kind", [
       .default([]),
     validFrom: isoDay.optional(),
     validTo: isoDay.optional(),
+    /** Required when the window reaches beyond the event days; printed on the permit. */
+    validityReason: z.string().trim().max(500, "Use at most 500 characters.").optional(),
   }),
   z.object({
     kind: z.literal("reject"),

@@ -5,11 +5,13 @@ import { applicationRevisions, decisions, permits, users, type DecisionKind, typ
 import { TIER_LABELS, type Tier } from "@/lib/hazard";
 import { effectivePermitState, todayIn } from "@/lib/permits/dates";
 import { institutionTimeZone } from "@/lib/permits/queries";
+import { printAudience } from "@/lib/pdf/content";
+import { AUDIENCE_LABELS } from "@/lib/validation/application";
 import { isWellFormedCode } from "./code";
 
 // What the public verification page may show about a permit, and nothing more (product.md, security.md:
-// only what the printed permit shows): status, number, holder's name, room, validity, tier, and the
-// signers' names and meanings. Columns are listed one by one so nothing else is ever selected.
+// only what the printed permit shows): status, number, holder's name, room, apparatus, event days,
+// audience, validity, tier, and the signers' names and meanings. Columns are listed one by one so nothing else is ever selected.
 
 export type PublicSigner = { name: string; meaning: string; kind: DecisionKind };
 
@@ -18,6 +20,13 @@ export type PublicPermit = {
   status: PermitState;
   holderName: string;
   room: string;
+  /** The apparatus the permit is for, as printed on it. */
+  apparatusName: string;
+  /** The event days the permit was asked for (ISO days; empty for a revision without them). */
+  eventFirstDay: string;
+  eventLastDay: string;
+  /** "80 members of the public", as printed on the permit. */
+  audience: string;
   validFrom: string;
   validTo: string;
   /** The institution's calendar day the status was computed for (YYYY-MM-DD). */
@@ -48,6 +57,11 @@ export async function findPublicPermit(code: string, now: Date = new Date()): Pr
       holderName: users.name,
       eventRoom: sql<string | null>`${applicationRevisions.content}->'event'->>'room'`,
       apparatusRoom: sql<string | null>`${applicationRevisions.content}->'apparatus'->>'room'`,
+      apparatusName: sql<string | null>`${applicationRevisions.content}->'apparatus'->>'name'`,
+      firstDay: sql<string | null>`${applicationRevisions.content}->'event'->>'firstDay'`,
+      lastDay: sql<string | null>`${applicationRevisions.content}->'event'->>'lastDay'`,
+      audience: sql<string | null>`${applicationRevisions.content}->'event'->>'audience'`,
+      audienceSize: sql<string | null>`${applicationRevisions.content}->'event'->>'audienceSize'`,
     })
     .from(permits)
     .innerJoin(users, eq(users.id, permits.holderId))
@@ -71,6 +85,13 @@ export async function findPublicPermit(code: string, now: Date = new Date()): Pr
     status: effectivePermitState({ state: row.state, validTo: row.validTo }, today),
     holderName: row.holderName,
     room: row.eventRoom || row.apparatusRoom || "",
+    apparatusName: row.apparatusName ?? "",
+    eventFirstDay: row.firstDay ?? "",
+    eventLastDay: row.lastDay ?? "",
+    audience: printAudience(
+      AUDIENCE_LABELS[row.audience as keyof typeof AUDIENCE_LABELS] ?? "",
+      Number(row.audienceSize ?? 0) || 0,
+    ),
     validFrom: row.validFrom,
     validTo: row.validTo,
     today,

@@ -4,11 +4,14 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { mailOutbox, permits, type Department, type User } from "@/db/schema";
 import { runReminders } from "@/lib/jobs/actions";
+import { instantAt } from "@/lib/jobs/clock";
+import { decide } from "@/lib/review/decide";
 import { reminderKey } from "@/lib/jobs/reminders";
 import { deliverDueMail } from "@/lib/mail/actions";
 import { addDays, todayIn } from "@/lib/permits/dates";
 import { isoDayFromNow, pngBytes } from "../applications/support";
 import { caughtTo, createPermitFixture, outboxRowsTo, useTimeZone, waitFor } from "../jobs/support";
+import { asActor, createSubmittedApplication } from "../review/support";
 import { createDepartment, createUser, requireDatabase, TEST_PASSWORD, uniq } from "../support/db";
 import { randomIp } from "../support/http";
 import { launchBrowser, newContext, signInWithForm } from "./support/browser";
@@ -331,7 +334,11 @@ describe("the whole job, from invitation to reminder, in a real browser", () => 
       await expectAccessible(officerPage, "/review (safety officer)");
       await officerPage.getByRole("link", { name: eventTitle }).click();
       await officerPage.waitForURL(`**/applications/${applicationId}`);
+      // issue 20: nothing is chosen for the signer; the window offered is the event's one day.
+      expect(await officerPage.locator('input[type="radio"]:checked').count()).toBe(0);
       await officerPage.getByLabel(/^Approve/).check();
+      expect(await officerPage.getByLabel("Valid from").inputValue()).toBe(isoDayFromNow(21));
+      expect(await officerPage.getByLabel("Valid to").inputValue()).toBe(isoDayFromNow(21));
       // Tier 2's one requirement in the default chain rules (lib/rules/chain.ts).
       await officerPage.getByLabel("The named operator holds current training.").check();
       await officerPage.getByRole("textbox", { name: /^Your password/ }).fill(TEST_PASSWORD);
@@ -347,6 +354,9 @@ describe("the whole job, from invitation to reminder, in a real browser", () => 
         state: "active",
         tier: 2,
         conditions: ["The named operator holds current training."],
+        // The outreach evening's one day, not the tier's 180 days (issue 20).
+        validFrom: isoDayFromNow(21),
+        validTo: isoDayFromNow(21),
       });
       permitId = permit.id;
       permitNumber = permit.number;
@@ -397,6 +407,10 @@ describe("the whole job, from invitation to reminder, in a real browser", () => 
     await phone.goto(`/verify/${verificationCode}`);
     expect(await phone.getByRole("heading", { level: 1 }).textContent()).toBe("Active");
     expect(await phone.getByText(permitNumber).first().isVisible()).toBe(true);
+    // What the printed permit says about the event: the apparatus, its day and its audience.
+    const facts = (await phone.locator("main dl").textContent()) ?? "";
+    expect(facts).toContain(apparatusName);
+    expect(facts).toContain("60 members of the public");
     expect(await phone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(PHONE.width);
     await expectAccessible(phone, "/verify/[code] active (phone)");
     await screenshot(phone, "verify-phone");
@@ -468,6 +482,57 @@ describe("the whole job, from invitation to reminder, in a real browser", () => 
         await runReminders({ now: jobNow });
         await deliverDueMail({ limit: 10_000 });
         expect(caughtTo(active.holder.email)).toHaveLength(1);
+      } finally {
+        await restore();
+      }
+    },
+  );
+  it(
+    "8. an event-bound permit is valid for the event's day only, and its QR page says expired the day after",
+    { timeout: 90_000 },
+    async () => {
+      const restore = await useTimeZone("UTC");
+      try {
+        // An evening event two days ahead; the daily job then runs as of the morning after it.
+        const eventDay = addDays(todayIn("UTC", new Date()), 2);
+        const holder = await createUser({ roles: ["instructor"], departmentId: dept.id, name: "Edda Marlow" });
+        const title = "Spark gap evening for the public";
+        const { application } = await createSubmittedApplication({
+          applicant: holder,
+          tier: 2,
+          title,
+          firstDay: eventDay,
+          lastDay: eventDay,
+          audience: "public",
+          audienceSize: 80,
+        });
+        await decide(asActor(reviewer), application.id, { kind: "recommend", expectedVersion: application.version });
+
+        const officerPage = await page();
+        await signInWithForm(officerPage, officer.email, TEST_PASSWORD);
+        await officerPage.goto(`/applications/${application.id}`);
+        await officerPage.getByLabel(/^Approve/).check();
+        expect(await officerPage.getByLabel("Valid from").inputValue()).toBe(eventDay);
+        expect(await officerPage.getByLabel("Valid to").inputValue()).toBe(eventDay);
+        await officerPage.getByLabel("The named operator holds current training.").check();
+        await officerPage.getByRole("textbox", { name: /^Your password/ }).fill(TEST_PASSWORD);
+        await officerPage.getByRole("button", { name: "Sign and approve" }).click();
+        await expect.poll(async () => (await permitForApplication(application.id))?.state).toBe("active");
+        const permit = await permitForApplication(application.id);
+        expect(permit).toMatchObject({ validFrom: eventDay, validTo: eventDay, validityReason: null });
+
+        const bench = await page(PHONE);
+        await bench.context().setExtraHTTPHeaders({ "x-forwarded-for": randomIp() });
+        await bench.goto(`/verify/${permit.verificationCode}`);
+        expect(await bench.getByRole("heading", { level: 1 }).textContent()).toBe("Active");
+        expect((await bench.locator("main dl").textContent()) ?? "").toContain("80 members of the public");
+
+        // Move the clock as `npm run clock -- <day>` does: the daily job at 06:00 the day after the event.
+        const report = await runReminders({ now: instantAt(addDays(eventDay, 1), "UTC", 6) });
+        expect(report.expired).toContain(permit.id);
+        await bench.reload();
+        expect(await bench.getByRole("heading", { level: 1 }).textContent()).toBe("Expired");
+        await expectAccessible(bench, "/verify/[code] expired (phone)");
       } finally {
         await restore();
       }

@@ -207,3 +207,64 @@ describe("the bench card", () => {
     expect(pdfText(pdf)).toContain("+44 20 7946 0144");
   });
 });
+
+describe("what the people at the bench read (issue 20)", () => {
+  for (const size of SIZES) {
+    it(`prints the event days, the audience and the apparatus on the ${size} permit and bench card`, async () => {
+      const base = samplePrintData(2);
+      const data: PrintData = {
+        ...base,
+        event: {
+          ...base.event,
+          kindLabel: "Outreach event",
+          audienceLabel: "Members of the public",
+          audienceSize: 80,
+          firstDay: "2027-01-15",
+          lastDay: "2027-01-15",
+        },
+        permit: { ...base.permit, validFrom: "2027-01-15", validTo: "2027-01-15" },
+      };
+      for (const kind of ["permit", "bench-card"] as const) {
+        const text = folded(pdfText(await renderDocument(data, kind, size)));
+        expect(text, kind).toContain("15 Jan 2027");
+        expect(text, kind).toContain("80 members of the public");
+        expect(text, kind).toContain(data.apparatus.name);
+      }
+    });
+  }
+
+  it("prints the approver's reason for a window beyond the event days on the permit", async () => {
+    const data = samplePrintData(3, { validityReason: "Two rehearsals in the week before." });
+    const text = folded(pdfText(await renderDocument(data, "permit", "a4")));
+    expect(text).toContain("Beyond the event days because: Two rehearsals in the week before.");
+  });
+
+  it("rates the probe for the voltage the bank is charged toward, not the gap-limited voltage", async () => {
+    // The issue's set-up: a pair of jars charged toward 40 kV across a sphere gap that breaks down
+    // lower. 2 cm spheres 0.8 cm apart break down near 26 kV peak in standard air (IEC 60052 table,
+    // memory); the engine's own figure is only checked to be below the charging voltage.
+    const base = samplePrintData(2);
+    const setup = {
+      sources: [
+        {
+          id: "Jars",
+          kind: "capacitor" as const,
+          capacitance_F: 1e-9,
+          count: 2,
+          arrangement: "parallel" as const,
+          voltage_V: 40e3,
+          bleeder_ohm: 1e9,
+        },
+      ],
+      gaps: [{ sphereDiameter_m: 0.02, spacing_m: 0.008 }],
+    };
+    const { assessSetup } = await import("@/lib/hazard");
+    const assessment = assessSetup(setup);
+    expect(assessment.maxVoltage_V).toBeLessThan(40e3);
+    const data: PrintData = { ...base, setup, assessment };
+    const text = folded(pdfText(await renderDocument(data, "bench-card", "a4")));
+    // The charging voltage as typed: 40 kV.
+    expect(text).toContain("probe rated for 40.0 kV");
+    expect(text).not.toContain(`probe rated for ${formatQuantity(assessment.maxVoltage_V, "V")}`);
+  });
+});

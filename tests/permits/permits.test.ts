@@ -12,7 +12,7 @@ import { decide } from "@/lib/review/decide";
 import { DECISION_MEANINGS } from "@/lib/signing/meanings";
 import { applicationDraftSchema } from "@/lib/validation/application";
 import { createUser, requireDatabase, TEST_PASSWORD } from "../support/db";
-import { asActor, createSubmittedApplication, createTeam } from "../review/support";
+import { asActor, createSubmittedApplication, createTeam, isoDayFromNow } from "../review/support";
 
 requireDatabase();
 
@@ -36,6 +36,10 @@ async function issuedPermit(
     tier: 1,
     operators: options.operators,
     namedUserIds: options.operators?.map((o) => o.id),
+    // A teaching block already under way: the permit starts on the institution's today (issue 20: a
+    // permit covers the event days, from today at the earliest).
+    firstDay: isoDayFromNow(-1),
+    lastDay: isoDayFromNow(60),
   });
   const result = await decide(asActor(team.reviewer), application.id, {
     kind: "approve",

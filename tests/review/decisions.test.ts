@@ -19,6 +19,7 @@ import {
   createOfficer,
   createSubmittedApplication,
   createTeam,
+  isoDayFromNow,
   reload,
   resubmit,
   TIER_SETUPS,
@@ -75,14 +76,20 @@ describe("fixtures", () => {
 });
 
 describe("tier 0: recorded, self-certified (product.md default rules)", () => {
-  it("approves at submission with a permit for 365 days and no signature", async () => {
+  it("approves at submission with a permit for the event days and no signature", async () => {
     const team = await createTeam();
-    const { application } = await createSubmittedApplication({ applicant: team.instructor, tier: 0 });
+    const { application } = await createSubmittedApplication({
+      applicant: team.instructor,
+      tier: 0,
+      firstDay: isoDayFromNow(10),
+      lastDay: isoDayFromNow(12),
+    });
     expect(application.state).toBe("approved");
     const [permit] = await getDb().select().from(permits).where(eq(permits.applicationId, application.id));
     // product.md: PREFIX-YYYY-NNNN, the prefix from the institution settings (default HV).
     expect(permit.number).toBe(`${await permitPrefix()}-${permit.year}-${String(permit.seq).padStart(4, "0")}`);
-    expect(inclusiveDays(permit.validFrom, permit.validTo)).toBe(365);
+    // issue 20: a permit covers the days the applicant asked for, not the tier's longest validity.
+    expect(permit).toMatchObject({ validFrom: isoDayFromNow(10), validTo: isoDayFromNow(12), validityReason: null });
     expect(permit.holderId).toBe(team.instructor.id);
     expect(await getDb().select().from(decisions).where(eq(decisions.applicationId, application.id))).toEqual([]);
     const audit = await getDb()
@@ -96,9 +103,14 @@ describe("tier 0: recorded, self-certified (product.md default rules)", () => {
 });
 
 describe("tier 1: one reviewer of the applicant's department, whose approval is final", () => {
-  it("issues the permit on the reviewer's approval, for at most 365 days", async () => {
+  it("issues the permit on the reviewer's approval, for the event days", async () => {
     const team = await createTeam();
-    const { application, contentHash } = await createSubmittedApplication({ applicant: team.instructor, tier: 1 });
+    const { application, contentHash } = await createSubmittedApplication({
+      applicant: team.instructor,
+      tier: 1,
+      firstDay: isoDayFromNow(7),
+      lastDay: isoDayFromNow(8),
+    });
     expect(application.state).toBe("submitted");
     // The safety officer is not part of a tier-1 chain.
     expect(await outcome(decide(asActor(team.officer), application.id, approveBody(application.version)))).toBe(403);
@@ -112,8 +124,8 @@ describe("tier 1: one reviewer of the applicant's department, whose approval is 
       meaning: DECISION_MEANINGS.approve,
       contentHash,
     });
-    expect(result.permit).not.toBeNull();
-    expect(inclusiveDays(result.permit!.validFrom, result.permit!.validTo)).toBe(365);
+    expect(result.permit).toMatchObject({ validFrom: isoDayFromNow(7), validTo: isoDayFromNow(8) });
+    expect(result.decision).toMatchObject({ validFrom: isoDayFromNow(7), validTo: isoDayFromNow(8) });
   });
 });
 
@@ -149,8 +161,8 @@ describe("tiers 2–4: reviewer recommends, then the safety officer approves", (
         revisionId,
         contentHash,
       });
-      const validity = DEFAULT_CHAIN_RULES.tiers[tier].validityDays; // product.md: 180 / 90 / 30 days
-      expect(inclusiveDays(result.permit!.validFrom, result.permit!.validTo)).toBe(validity);
+      // The fixture's event: a week from now, two days long (tests/review/support.ts).
+      expect(result.permit).toMatchObject({ validFrom: isoDayFromNow(7), validTo: isoDayFromNow(8) });
       expect(result.permit!.conditions).toEqual([
         ...DEFAULT_CHAIN_RULES.tiers[tier].requirements.map((r) => r.text),
         "Doors closed during operation.",
@@ -216,10 +228,126 @@ describe("tiers 2–4: reviewer recommends, then the safety officer approves", (
     const ok = await decide(
       officer,
       application.id,
-      approveBody(v, { confirmedRequirements: allRequirements(3), validFrom: plus(1), validTo: plus(14) }),
+      approveBody(v, {
+        confirmedRequirements: allRequirements(3),
+        validFrom: plus(1),
+        validTo: plus(14),
+        validityReason: "Rehearsals in the week before.",
+      }),
     );
     expect(ok.permit).toMatchObject({ validFrom: plus(1), validTo: plus(14) });
     expect(today <= ok.permit!.validFrom).toBe(true);
+  });
+});
+
+describe("the permit is for the event (issue 20, item 1)", () => {
+  async function recommended(options: { firstDay: string; lastDay: string; tier?: 2 | 3 | 4 }) {
+    const team = await createTeam();
+    const tier = options.tier ?? 3;
+    const { application } = await createSubmittedApplication({ applicant: team.instructor, tier, ...options });
+    const rec = await decide(asActor(team.reviewer), application.id, {
+      kind: "recommend",
+      expectedVersion: application.version,
+    });
+    return { team, application, version: rec.application.version, tier };
+  }
+
+  it("defaults the window to the event days: an evening event gets a one-day permit", async () => {
+    // The outreach evening of the issue: one day, three weeks ahead.
+    const day = isoDayFromNow(21);
+    const { team, application, version } = await recommended({ firstDay: day, lastDay: day });
+    const result = await decide(
+      asActor(team.officer),
+      application.id,
+      approveBody(version, { confirmedRequirements: allRequirements(3) }),
+    );
+    expect(result.permit).toMatchObject({ validFrom: day, validTo: day, validityReason: null });
+    expect(inclusiveDays(result.permit!.validFrom, result.permit!.validTo)).toBe(1);
+  });
+
+  it("lets the approver narrow the window without a reason", async () => {
+    const { team, application, version } = await recommended({
+      firstDay: isoDayFromNow(10),
+      lastDay: isoDayFromNow(14),
+    });
+    const result = await decide(
+      asActor(team.officer),
+      application.id,
+      approveBody(version, {
+        confirmedRequirements: allRequirements(3),
+        validFrom: isoDayFromNow(11),
+        validTo: isoDayFromNow(12),
+      }),
+    );
+    expect(result.permit).toMatchObject({ validFrom: isoDayFromNow(11), validTo: isoDayFromNow(12) });
+  });
+
+  it("refuses a window beyond the event days without a reason, and stores, audits and signs the reason given", async () => {
+    const { team, application, version } = await recommended({
+      firstDay: isoDayFromNow(10),
+      lastDay: isoDayFromNow(10),
+    });
+    const officer = asActor(team.officer);
+    const wider = { validFrom: isoDayFromNow(3), validTo: isoDayFromNow(10) };
+    const refused = await errorOf(
+      decide(officer, application.id, approveBody(version, { confirmedRequirements: allRequirements(3), ...wider })),
+    );
+    expect(refused.status).toBe(422);
+    expect(refused.details.issues?.[0].path).toBe("validityReason");
+    expect((await reload(application.id)).state).toBe("in_review");
+
+    const reason = "Two rehearsals in the hall during the week before.";
+    const result = await decide(
+      officer,
+      application.id,
+      approveBody(version, { confirmedRequirements: allRequirements(3), ...wider, validityReason: reason }),
+    );
+    expect(result.permit).toMatchObject({ ...wider, validityReason: reason });
+    // Signed with the decision: the approval row carries the window and its reason.
+    expect(result.decision).toMatchObject({ kind: "approve", ...wider, validityReason: reason });
+    const [audit] = await getDb()
+      .select({ data: auditEvents.data })
+      .from(auditEvents)
+      .where(and(eq(auditEvents.action, "application.approved"), eq(auditEvents.entityId, application.id)));
+    expect(audit.data).toMatchObject({ ...wider, validityReason: reason });
+  });
+
+  it("never widens past the tier's longest validity, even with a reason", async () => {
+    // product.md default rules: tier 4 permits last at most 30 days.
+    const { team, application, version } = await recommended({
+      firstDay: isoDayFromNow(5),
+      lastDay: isoDayFromNow(5),
+      tier: 4,
+    });
+    const error = await errorOf(
+      decide(
+        asActor(team.officer),
+        application.id,
+        approveBody(version, {
+          confirmedRequirements: allRequirements(4),
+          validFrom: isoDayFromNow(5),
+          validTo: isoDayFromNow(5 + 30),
+          validityReason: "A month of open days.",
+        }),
+      ),
+    );
+    expect(error.status).toBe(422);
+    expect(error.details.issues?.[0].path).toBe("validTo");
+  });
+
+  it("cuts a long event to the tier's longest validity", async () => {
+    // Tier 4: 30 days at most (product.md), from the first day of a 60-day teaching block.
+    const { team, application, version } = await recommended({
+      firstDay: isoDayFromNow(2),
+      lastDay: isoDayFromNow(61),
+      tier: 4,
+    });
+    const result = await decide(
+      asActor(team.officer),
+      application.id,
+      approveBody(version, { confirmedRequirements: allRequirements(4) }),
+    );
+    expect(result.permit).toMatchObject({ validFrom: isoDayFromNow(2), validTo: isoDayFromNow(31) });
   });
 });
 

@@ -11,7 +11,7 @@ import { adoptRuleSet } from "@/lib/rules/actions";
 import { chainRulesFor, currentChainRules, currentReminderRules, currentTierRuleSet } from "@/lib/rules/queries";
 import { adoptRulesSchema } from "@/lib/rules/schemas";
 import { createUser, requireDatabase, TEST_PASSWORD } from "../support/db";
-import { asActor, createOfficer, createSubmittedApplication, createTeam } from "./support";
+import { asActor, createOfficer, createSubmittedApplication, createTeam, isoDayFromNow } from "./support";
 
 requireDatabase();
 
@@ -110,7 +110,9 @@ describe("adopting rule sets", () => {
   it("keeps each application on the chain rules version it was submitted under", async () => {
     const admin = await createUser({ roles: ["admin"] });
     const team = await createTeam();
-    const before = await createSubmittedApplication({ applicant: team.instructor, tier: 1 });
+    // A year-long teaching block: the window is cut to each version's longest validity.
+    const longEvent = { firstDay: isoDayFromNow(1), lastDay: isoDayFromNow(500) };
+    const before = await createSubmittedApplication({ applicant: team.instructor, tier: 1, ...longEvent });
     const oldVersion = before.application.chainRulesVersion;
 
     const stricter = clone(DEFAULT_CHAIN_RULES);
@@ -132,7 +134,7 @@ describe("adopting rule sets", () => {
       data: { kind: "chain", version: adopted.version },
     });
 
-    const after = await createSubmittedApplication({ applicant: team.instructor, tier: 1 });
+    const after = await createSubmittedApplication({ applicant: team.instructor, tier: 1, ...longEvent });
     expect(after.application.chainRulesVersion).toBe(adopted.version);
     expect((await chainRulesFor(oldVersion)).tiers[1].validityDays).toBe(365);
 

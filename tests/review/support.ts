@@ -52,6 +52,11 @@ export function buildContent(options: {
   operators?: { id: string | null; name: string }[];
   setup?: SetupInput;
   room?: string;
+  /** The event days (YYYY-MM-DD); by default a week from now, two days long. */
+  firstDay?: string;
+  lastDay?: string;
+  audience?: "none" | "students" | "public";
+  audienceSize?: number;
 }): ApplicationContent {
   const setup = options.setup ?? TIER_SETUPS[options.tier];
   const assessment = assessSetup(setup);
@@ -60,10 +65,10 @@ export function buildContent(options: {
       title: options.title ?? `Demonstration ${uniq("ev")}`,
       kind: "lecture_demonstration",
       room: options.room ?? "B12",
-      audience: "students",
-      audienceSize: 40,
-      firstDay: isoDayFromNow(7),
-      lastDay: isoDayFromNow(8),
+      audience: options.audience ?? "students",
+      audienceSize: options.audienceSize ?? 40,
+      firstDay: options.firstDay ?? isoDayFromNow(7),
+      lastDay: options.lastDay ?? isoDayFromNow(8),
       responsible: { userId: options.responsible.id, name: options.responsible.name },
       operators: (options.operators ?? []).map((o) => ({ userId: o.id, name: o.name, trained: true })),
     },
@@ -99,6 +104,10 @@ export async function createSubmittedApplication(options: {
   operators?: { id: string | null; name: string }[];
   title?: string;
   setup?: SetupInput;
+  firstDay?: string;
+  lastDay?: string;
+  audience?: "none" | "students" | "public";
+  audienceSize?: number;
   /** Back-date the wait (for the queue's age filter and sort). */
   waitingSince?: Date;
 }): Promise<Fixture> {
@@ -108,6 +117,10 @@ export async function createSubmittedApplication(options: {
     responsible: options.applicant,
     operators: options.operators,
     setup: options.setup,
+    firstDay: options.firstDay,
+    lastDay: options.lastDay,
+    audience: options.audience,
+    audienceSize: options.audienceSize,
   });
   const assessment = assessSetup(content.apparatus.setup);
   if (assessment.tier !== options.tier)

@@ -53,7 +53,7 @@ describe("GET /verify/[code]", () => {
     holderEmail = row.email;
   });
 
-  it("shows an active permit's status, number, holder, room, validity, tier and signers, and nothing more", async () => {
+  it("shows an active permit's status, number, holder, apparatus, room, event days, audience, validity, tier and signers, and nothing more", async () => {
     const res = await verify(active.permit.verificationCode);
     expect(res.status).toBe(200);
     const text = res.main;
@@ -66,11 +66,16 @@ describe("GET /verify/[code]", () => {
     expect(text).toContain("Tier 3 · Lethal shock");
     expect(text).toContain(`${active.reviewer.name} Reviewed and recommended for approval`);
     expect(text).toContain(`${active.officer.name} Approved for use as described`);
-    // Nothing beyond the printed permit's public facts (security.md): no e-mail, apparatus, figures,
+    // issue 20: the apparatus, the event days and the audience, as the printed permit shows them.
+    expect(text).toContain(`Apparatus ${active.content.apparatus.name}`);
+    expect(text).toContain(`Event days ${day(active.content.event.firstDay)}`);
+    expect(text).toContain(
+      `Audience ${active.content.event.audienceSize} ${active.content.event.audience === "public" ? "members of the public" : "students"}`,
+    );
+    // Nothing beyond the printed permit's public facts (security.md): no e-mail, figures,
     // conditions, operators or signer roles.
     for (const hidden of [
       holderEmail,
-      active.content.apparatus.name,
       active.operator.name,
       "50.0 J",
       active.permit.conditions[0],

@@ -3,13 +3,13 @@ import { headers } from "next/headers";
 import type { ReactNode } from "react";
 import { cx } from "@/app/_components/cx";
 import { TierBadge } from "@/app/_components/tier-badge";
-import { printDay } from "@/lib/pdf/content";
+import { printDay, printDays } from "@/lib/pdf/content";
 import { lookUpVerification, type PublicPermit } from "@/lib/verify";
 
 // /verify/[code]: what a posted permit's QR code opens. Public and phone first. It shows the live
-// status in large words and colour, then only what the printed permit shows: number, holder, room,
-// validity, tier, and the signers with what they signed. Unknown and malformed codes get the same
-// answer. Every request reads the database (no caching), so a revocation shows at once.
+// status in large words and colour, then only what the printed permit shows: number, holder,
+// apparatus, room, event days, audience, validity, tier, and the signers with what they signed.
+// Unknown and malformed codes get the same answer. Every request reads the database (no caching), so a revocation shows at once.
 
 export const dynamic = "force-dynamic";
 
@@ -113,7 +113,10 @@ function Found({ permit }: { permit: PublicPermit }) {
           <span className="figure text-xl">{permit.number}</span>
         </Row>
         <Row label="Holder">{permit.holderName}</Row>
+        <Row label="Apparatus">{permit.apparatusName || "—"}</Row>
         <Row label="Room">{permit.room || "—"}</Row>
+        <Row label="Event days">{printDays(permit.eventFirstDay, permit.eventLastDay)}</Row>
+        <Row label="Audience">{permit.audience}</Row>
         <Row label="Valid">
           {printDay(permit.validFrom)} – {printDay(permit.validTo)}
         </Row>

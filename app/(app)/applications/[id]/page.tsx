@@ -13,7 +13,7 @@ import { isTier } from "@/app/_components/tier";
 import { TierBadge } from "@/app/_components/tier-badge";
 import { pinLabel, pinOptions } from "@/lib/applications/pins";
 import { requirePageUser } from "@/lib/auth/guards";
-import { addDays } from "@/lib/permits/dates";
+import { defaultValidity, eventDaysOf } from "@/lib/permits/dates";
 import { institutionToday } from "@/lib/permits/queries";
 import { getApplicationRecord } from "@/lib/review/queries";
 import { repliesFor } from "@/lib/review/replies";
@@ -64,6 +64,8 @@ export default async function ApplicationPage({
   let panel: React.ReactNode = null;
   if (options?.ok && chain) {
     const today = await institutionToday();
+    const eventDays = eventDaysOf(current?.content);
+    const window = defaultValidity(eventDays, chain.validityDays, today);
     panel = (
       <Card
         title="Sign a decision"
@@ -76,8 +78,9 @@ export default async function ApplicationPage({
           stepLabel={`Step ${options.step} of ${chain.steps.length}: ${STEP_ROLE_LABELS[options.role]}${options.final ? " (final approval)" : ""}.`}
           requirements={options.final ? chain.requirements : []}
           validityDays={chain.validityDays}
-          defaultValidFrom={today}
-          defaultValidTo={addDays(today, chain.validityDays - 1)}
+          defaultValidFrom={window.validFrom}
+          defaultValidTo={window.validTo}
+          eventDays={eventDays}
           pinOptions={pinOptions(content)}
         />
       </Card>

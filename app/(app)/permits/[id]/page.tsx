@@ -16,7 +16,8 @@ import { can, requirePageUser } from "@/lib/auth/guards";
 import { daysFromTo, inclusiveDays } from "@/lib/permits/dates";
 import { getPermit } from "@/lib/permits/queries";
 import { figureRows, formatPerson } from "@/lib/review/present";
-import type { ApplicationContent } from "@/lib/validation/application";
+import { printAudience, printDays } from "@/lib/pdf/content";
+import { AUDIENCE_LABELS, EVENT_KIND_LABELS, type ApplicationContent } from "@/lib/validation/application";
 import { SignatureList } from "@/app/_components/signature-list";
 import { formatUtc } from "@/app/_components/utc";
 import { RenewButton, RevokeForm } from "./_components/permit-actions";
@@ -65,6 +66,9 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
             <ButtonLink href={`/permits/${permit.id}/pdf`} variant="secondary" size="sm" prefetch={false}>
               Printable PDF
             </ButtonLink>
+            <ButtonLink href={`/permits/${permit.id}/bench-card`} variant="secondary" size="sm" prefetch={false}>
+              Bench card
+            </ButtonLink>
           </>
         }
       />
@@ -96,7 +100,18 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
             <dl className="flex flex-col gap-2">
               <Row label="Holder">{found.holderName}</Row>
               <Row label="Room or place">{content.event?.room || content.apparatus?.room || "—"}</Row>
-              <Row label="Apparatus">{content.apparatus?.name ?? "—"}</Row>
+              <Row label="Apparatus">{content.apparatus?.name || "—"}</Row>
+              <Row label="Event days">
+                {content.event?.firstDay ? printDays(content.event.firstDay, content.event.lastDay ?? "") : "—"}
+                {content.event?.kind ? (
+                  <span className="text-stone-600"> ({EVENT_KIND_LABELS[content.event.kind]})</span>
+                ) : null}
+              </Row>
+              <Row label="Audience">
+                {content.event?.audience
+                  ? printAudience(AUDIENCE_LABELS[content.event.audience], content.event.audienceSize ?? 0)
+                  : "—"}
+              </Row>
               <Row label="Valid">
                 <time dateTime={permit.validFrom}>{formatDate(permit.validFrom)}</time> to{" "}
                 <time dateTime={permit.validTo}>{formatDate(permit.validTo)}</time>
@@ -105,6 +120,11 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
                   ({inclusiveDays(permit.validFrom, permit.validTo)} days
                   {effectiveState === "active" ? `; ${left === 0 ? "last day today" : `${left + 1} days left`}` : ""})
                 </span>
+                {permit.validityReason && (
+                  <span className="mt-0.5 block text-stone-700" data-testid="validity-reason">
+                    Beyond the event days because: {permit.validityReason}
+                  </span>
+                )}
               </Row>
               <Row label="Responsible person">{formatPerson(content.event?.responsible)}</Row>
               <Row label="Operators">
@@ -159,6 +179,29 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
         <div className="flex min-w-0 flex-col gap-6">
           <Card title="Signatures">
             <SignatureList items={found.signatures} empty="Self-certified: no signatures at this tier." />
+          </Card>
+          <Card title="Print" description="Post the permit at the bench and fix the bench card beside the apparatus.">
+            <ul className="flex flex-col gap-2 text-sm" aria-label="Printable files">
+              {(
+                [
+                  ["pdf", "Permit"],
+                  ["bench-card", "Bench card"],
+                ] as const
+              ).map(([path, name]) => (
+                <li key={path} className="flex flex-wrap items-center gap-x-3 gap-y-1">
+                  <span className="w-24 font-medium text-stone-900">{name}</span>
+                  <a href={`/permits/${permit.id}/${path}`} className="text-ink-800 underline decoration-ink-300">
+                    {name} (A4)
+                  </a>
+                  <a
+                    href={`/permits/${permit.id}/${path}?size=letter`}
+                    className="text-ink-800 underline decoration-ink-300"
+                  >
+                    {name} (US Letter)
+                  </a>
+                </li>
+              ))}
+            </ul>
           </Card>
           {mayRenew && (
             <Card title="Renew" description="Starts a new application from this permit; you give the new dates.">

@@ -1,7 +1,7 @@
 "use client";
 
 import { useRouter } from "next/navigation";
-import { useId, useState } from "react";
+import { useEffect, useId, useRef, useState } from "react";
 import { Alert } from "@/app/_components/alert";
 import { Button } from "@/app/_components/button";
 import { Field, FieldShell, controlClasses } from "@/app/_components/field";
@@ -9,7 +9,9 @@ import { ApiError, apiFetch } from "@/lib/client/api";
 
 // The signing panel on the application page, for whoever may act at the step the application waits
 // at. The server decides again (role, department, separation of duties, state, version); this panel
-// only offers what the server said this person may do.
+// only offers what the server said this person may do. Nothing is chosen for the signer: a signature
+// is a deliberate act, so the decision starts empty. A refused signature moves the view and the focus
+// to its first problem, which may sit far above the button.
 
 type Kind = "recommend" | "return" | "approve" | "reject";
 
@@ -22,6 +24,8 @@ export type DecisionPanelProps = {
   validityDays: number;
   defaultValidFrom: string;
   defaultValidTo: string;
+  /** The days the application asks for; a window beyond them needs a reason. */
+  eventDays: { firstDay: string; lastDay: string } | null;
   pinOptions: { value: string; label: string }[];
 };
 
@@ -44,17 +48,34 @@ const KIND_TEXT: Record<Kind, { label: string; hint: string; button: string }> =
   },
 };
 
-type Errors = Partial<
-  Record<
-    "comment" | "password" | "confirmedRequirements" | "validFrom" | "validTo" | "extraConditions" | "pinnedTo",
-    string
-  >
->;
+const ERROR_KEYS = [
+  "kind",
+  "comment",
+  "password",
+  "confirmedRequirements",
+  "validFrom",
+  "validTo",
+  "validityReason",
+  "extraConditions",
+  "pinnedTo",
+] as const;
+type Errors = Partial<Record<(typeof ERROR_KEYS)[number], string>>;
+
+function dayText(isoDay: string): string {
+  const [y, m, d] = isoDay.split("-").map(Number);
+  return new Date(Date.UTC(y, m - 1, d)).toLocaleDateString("en-GB", {
+    day: "numeric",
+    month: "short",
+    year: "numeric",
+    timeZone: "UTC",
+  });
+}
 
 export function DecisionPanel(props: DecisionPanelProps) {
   const router = useRouter();
   const id = useId();
-  const [kind, setKind] = useState<Kind>(props.allowed[0]);
+  const formRef = useRef<HTMLFormElement>(null);
+  const [kind, setKind] = useState<Kind | null>(null);
   const [comment, setComment] = useState("");
   const [pinnedTo, setPinnedTo] = useState("");
   const [password, setPassword] = useState("");
@@ -62,9 +83,29 @@ export function DecisionPanel(props: DecisionPanelProps) {
   const [extra, setExtra] = useState("");
   const [validFrom, setValidFrom] = useState(props.defaultValidFrom);
   const [validTo, setValidTo] = useState(props.defaultValidTo);
+  const [validityReason, setValidityReason] = useState("");
   const [errors, setErrors] = useState<Errors>({});
   const [status, setStatus] = useState<{ tone: "error"; text: string } | null>(null);
   const [busy, setBusy] = useState(false);
+  // Bumped on every refused attempt, so the same error twice still moves the focus.
+  const [failedAttempt, setFailedAttempt] = useState(0);
+
+  useEffect(() => {
+    if (failedAttempt === 0) return;
+    const form = formRef.current;
+    if (!form) return;
+    const target =
+      form.querySelector<HTMLElement>('[aria-invalid="true"], [data-invalid]') ??
+      form.querySelector<HTMLElement>("[data-status]");
+    if (!target) return;
+    target.scrollIntoView({ block: "center" });
+    target.focus({ preventScroll: true });
+  }, [failedAttempt]);
+
+  const widened =
+    kind === "approve" &&
+    props.eventDays !== null &&
+    (validFrom < props.eventDays.firstDay || validTo > props.eventDays.lastDay);
 
   const needsPassword = kind === "approve" || kind === "reject";
   const commentRequired = kind === "return" || kind === "reject";
@@ -73,13 +114,18 @@ export function DecisionPanel(props: DecisionPanelProps) {
     event.preventDefault();
     setStatus(null);
     const local: Errors = {};
+    if (!kind) local.kind = "Choose a decision.";
     if (commentRequired && !comment.trim())
       local.comment = kind === "return" ? "Write what needs to change." : "Write the reason for the rejection.";
     if (needsPassword && !password) local.password = "Enter your password to sign.";
     if (kind === "approve" && confirmed.length < props.requirements.length)
       local.confirmedRequirements = "Confirm every requirement of this tier.";
+    if (widened && !validityReason.trim()) local.validityReason = "Give the reason for a window beyond the event days.";
     setErrors(local);
-    if (Object.keys(local).length) return;
+    if (Object.keys(local).length || !kind) {
+      setFailedAttempt((n) => n + 1);
+      return;
+    }
 
     const base = { expectedVersion: props.version };
     const body =
@@ -101,6 +147,7 @@ export function DecisionPanel(props: DecisionPanelProps) {
                   .filter(Boolean),
                 validFrom,
                 validTo,
+                validityReason: widened ? validityReason.trim() : undefined,
               };
     setBusy(true);
     try {
@@ -116,19 +163,7 @@ export function DecisionPanel(props: DecisionPanelProps) {
         const next: Errors = {};
         for (const issue of error.issues) {
           const key = issue.path.split(/[.[]/)[0] as keyof Errors;
-          if (
-            [
-              "comment",
-              "password",
-              "confirmedRequirements",
-              "validFrom",
-              "validTo",
-              "extraConditions",
-              "pinnedTo",
-            ].includes(key)
-          ) {
-            next[key] = issue.message;
-          }
+          if ((ERROR_KEYS as readonly string[]).includes(key) && !next[key]) next[key] = issue.message;
         }
         setErrors(next);
         setStatus({
@@ -138,17 +173,20 @@ export function DecisionPanel(props: DecisionPanelProps) {
       } else {
         setStatus({ tone: "error", text: "The decision was not recorded." });
       }
+      setFailedAttempt((n) => n + 1);
     } finally {
       setBusy(false);
     }
   }
 
   return (
-    <form onSubmit={submit} noValidate className="flex flex-col gap-4" aria-describedby={`${id}-step`}>
+    <form ref={formRef} onSubmit={submit} noValidate className="flex flex-col gap-4" aria-describedby={`${id}-step`}>
       <p id={`${id}-step`} className="text-sm text-stone-700">
         {props.stepLabel}
       </p>
-      <div aria-live="polite">{status && <Alert tone={status.tone}>{status.text}</Alert>}</div>
+      <div aria-live="polite" data-status={status ? "" : undefined} tabIndex={status ? -1 : undefined}>
+        {status && <Alert tone={status.tone}>{status.text}</Alert>}
+      </div>
 
       <fieldset>
         <legend className="text-sm font-medium text-stone-800">Your decision</legend>
@@ -165,6 +203,8 @@ export function DecisionPanel(props: DecisionPanelProps) {
                   setErrors({});
                 }}
                 className="mt-1 size-4"
+                data-invalid={errors.kind ? "" : undefined}
+                aria-describedby={errors.kind ? `${id}-kind-error` : undefined}
               />
               <span>
                 <span className="font-medium">{KIND_TEXT[k].label}</span>
@@ -173,6 +213,11 @@ export function DecisionPanel(props: DecisionPanelProps) {
             </label>
           ))}
         </div>
+        {errors.kind && (
+          <p id={`${id}-kind-error`} className="mt-1 text-sm text-red-800">
+            {errors.kind}
+          </p>
+        )}
       </fieldset>
 
       {kind === "approve" && props.requirements.length > 0 && (
@@ -220,6 +265,31 @@ export function DecisionPanel(props: DecisionPanelProps) {
               hint={`At most ${props.validityDays} days for this tier; you may shorten it.`}
             />
           </div>
+          {props.eventDays && (
+            <p className="-mt-2 text-sm text-stone-600">
+              The event runs {dayText(props.eventDays.firstDay)}
+              {props.eventDays.lastDay !== props.eventDays.firstDay ? ` to ${dayText(props.eventDays.lastDay)}` : ""};
+              the permit covers those days. A wider window needs a reason, printed on the permit.
+            </p>
+          )}
+          {widened && (
+            <FieldShell
+              label="Reason for a window beyond the event days"
+              required
+              hint="Printed on the permit and signed with your approval."
+              error={errors.validityReason}
+            >
+              {(a11y) => (
+                <textarea
+                  {...a11y}
+                  rows={2}
+                  value={validityReason}
+                  onChange={(e) => setValidityReason(e.target.value)}
+                  className={controlClasses}
+                />
+              )}
+            </FieldShell>
+          )}
           <FieldShell
             label="Further conditions"
             hint="Optional. One per line; printed on the permit."
@@ -294,7 +364,7 @@ export function DecisionPanel(props: DecisionPanelProps) {
         disabled={busy}
         aria-busy={busy || undefined}
       >
-        {busy ? "Signing…" : KIND_TEXT[kind].button}
+        {busy ? "Signing…" : kind ? KIND_TEXT[kind].button : "Sign"}
       </Button>
     </form>
   );
