@@ -221,15 +221,14 @@ export function PermitDocument({ data, size, qr }: { data: PrintData; size: Pape
           <Fact label="Responsible person" value={data.event.responsible} />
           <Fact label="Operators" value={operators.length ? operators.join(", ") : "the holder"} flex={1.3} />
         </View>
-        <View style={{ flexDirection: "row", marginTop: 6, paddingBottom: 8, ...s.rule }}>
-          <Fact
-            label={data.event.kindLabel ? `Event days (${data.event.kindLabel})` : "Event days"}
-            value={printDays(data.event.firstDay, data.event.lastDay)}
-            flex={1.3}
-          />
-          <Fact label="Audience" value={printAudience(data.event.audienceLabel, data.event.audienceSize)} />
-          <Fact label="Apparatus" value={data.apparatus.name || "—"} flex={1.7} />
-        </View>
+        <Text style={{ fontSize: 9.5, color: INK.text, marginTop: 3 }}>
+          <Text style={{ color: INK.muted }}>{data.event.kindLabel || "Event"} on </Text>
+          {printDays(data.event.firstDay, data.event.lastDay)}
+          <Text style={{ color: INK.muted }}> · Audience </Text>
+          {printAudience(data.event.audienceLabel, data.event.audienceSize)}
+          <Text style={{ color: INK.muted }}> · Apparatus </Text>
+          {data.apparatus.name || "—"}
+        </Text>
 
         <Section title="The figures that set the tier">
           <View style={{ flexDirection: "row", flexWrap: "wrap" }}>
