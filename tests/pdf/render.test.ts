@@ -256,7 +256,8 @@ describe("what the people at the bench read (issue 20)", () => {
           bleeder_ohm: 1e9,
         },
       ],
-      gaps: [{ sphereDiameter_m: 0.02, spacing_m: 0.008 }],
+      // Engine v2: a gap caps only the sources it is connected across.
+      gaps: [{ sphereDiameter_m: 0.02, spacing_m: 0.008, across: ["Jars"] }],
     };
     const { assessSetup } = await import("@/lib/hazard");
     const assessment = assessSetup(setup);
