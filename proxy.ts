@@ -1,11 +1,12 @@
 import NextAuth from "next-auth";
-import { NextResponse } from "next/server";
+import { NextResponse, type NextFetchEvent, type NextRequest } from "next/server";
 import { authConfig } from "./auth.config";
-import { VERIFY_HEADERS, verifyGate } from "@/lib/verify";
+import { countAtVerifyGate, VERIFY_HEADERS, VERIFY_PATH_PREFIX } from "@/lib/verify/gate";
 
-// Runs before every page request. It does two things only: sends signed-out visitors of signed-in
-// pages to /sign-in, and sets the Content-Security-Policy with a fresh nonce. It never authorizes:
-// every page, route handler and server action checks access itself (lib/auth/guards.ts).
+// Runs before every page request. It does three things only: sends signed-out visitors of signed-in
+// pages to /sign-in, sets the Content-Security-Policy with a fresh nonce, and counts look-ups of the
+// public verification page against their rate limit. It never authorizes: every page, route handler
+// and server action checks access itself (lib/auth/guards.ts).
 
 const { auth } = NextAuth(authConfig);
 
@@ -27,7 +28,21 @@ function contentSecurityPolicy(nonce: string): string {
   ].join("; ");
 }
 
-export default auth(async (request) => {
+function withSecurityHeaders(request: NextRequest, extra?: Headers): NextResponse {
+  const nonce = Buffer.from(crypto.getRandomValues(new Uint8Array(16))).toString("base64");
+  const csp = contentSecurityPolicy(nonce);
+  const headers = new Headers(request.headers);
+  headers.set("x-nonce", nonce);
+  headers.set("content-security-policy", csp);
+  extra?.forEach((value, key) => headers.set(key, value));
+  const response = NextResponse.next({ request: { headers } });
+  response.headers.set("Content-Security-Policy", csp);
+  return response;
+}
+
+// Every page but the status page: Auth.js reads (and refreshes) the session cookie; signed-out
+// visitors of signed-in pages go to /sign-in.
+const withSession = auth(async (request) => {
   const { pathname, search } = request.nextUrl;
   const isPublic = PUBLIC_PREFIXES.some((p) => pathname === p.replace(/\/$/, "") || pathname.startsWith(p));
   if (!isPublic && !request.auth?.user?.id) {
@@ -35,25 +50,23 @@ export default auth(async (request) => {
     if (pathname !== "/") url.searchParams.set("from", pathname + search);
     return NextResponse.redirect(url);
   }
+  return withSecurityHeaders(request);
+}) as unknown as (request: NextRequest, event: NextFetchEvent) => Promise<Response>;
 
-  // The public verification page: refuse with 429 over the per-address limit (the page itself counts
-  // each look-up; pages cannot set a status), and keep it out of search engines.
-  const verifying = pathname.startsWith("/verify/");
-  if (verifying) {
-    const refused = await verifyGate(request.headers);
-    if (refused) return refused;
+export default async function proxy(request: NextRequest, event: NextFetchEvent) {
+  // The public verification page skips Auth.js (decrypting a session cookie its visitors rarely have
+  // is wasted work on the page a busy open day loads most; docs/performance.md). The look-up is
+  // counted here, once, and refused with a real 429 (pages cannot set a status); the page is told it
+  // was counted, so it makes no second round trip. Every answer stays out of search engines.
+  if (request.nextUrl.pathname.startsWith(VERIFY_PATH_PREFIX)) {
+    const gate = await countAtVerifyGate(request.headers);
+    if (gate.refused) return gate.refused;
+    const response = withSecurityHeaders(request, gate.requestHeaders);
+    for (const [key, value] of Object.entries(VERIFY_HEADERS)) response.headers.set(key, value);
+    return response;
   }
-
-  const nonce = Buffer.from(crypto.getRandomValues(new Uint8Array(16))).toString("base64");
-  const csp = contentSecurityPolicy(nonce);
-  const headers = new Headers(request.headers);
-  headers.set("x-nonce", nonce);
-  headers.set("content-security-policy", csp);
-  const response = NextResponse.next({ request: { headers } });
-  response.headers.set("Content-Security-Policy", csp);
-  if (verifying) for (const [key, value] of Object.entries(VERIFY_HEADERS)) response.headers.set(key, value);
-  return response;
-});
+  return withSession(request, event);
+}
 
 export const config = {
   // /api/session sets and clears the session cookie itself; a refresh here would race it. Uploads

@@ -1,9 +1,10 @@
 import "server-only";
+import { countedAtGate } from "./gate";
 import { countVerifyLookup } from "./limit";
 import { findPublicPermit, type PublicPermit } from "./queries";
 
 // The public verification look-up behind /verify/[code]: count the look-up against the client's
-// rate limit first (so unknown codes cost the same as known ones), then read the permit. Unknown and
+// rate limit first (unless proxy.ts already did) (so unknown codes cost the same as known ones), then read the permit. Unknown and
 // malformed codes give the same answer.
 
 export type VerifyOutcome =
@@ -14,8 +15,10 @@ export async function lookUpVerification(input: {
   headers: Headers;
   now?: Date;
 }): Promise<VerifyOutcome> {
-  const limit = await countVerifyLookup(input.headers);
-  if (!limit.allowed) return { kind: "limited", retryAfterSeconds: limit.retryAfterSeconds };
+  if (!countedAtGate(input.headers)) {
+    const limit = await countVerifyLookup(input.headers);
+    if (!limit.allowed) return { kind: "limited", retryAfterSeconds: limit.retryAfterSeconds };
+  }
   const permit = await findPublicPermit(input.code, input.now);
   return permit ? { kind: "found", permit } : { kind: "unknown" };
 }
@@ -23,4 +26,4 @@ export async function lookUpVerification(input: {
 export { isWellFormedCode, verificationUrl } from "./code";
 export { VERIFY_RATE_LIMIT, peekVerifyLookup } from "./limit";
 export type { PublicPermit, PublicSigner } from "./queries";
-export { VERIFY_HEADERS, VERIFY_PATH_PREFIX, verifyGate } from "./gate";
+export { countAtVerifyGate, VERIFY_HEADERS, VERIFY_PATH_PREFIX, verifyGate } from "./gate";

@@ -1,10 +1,17 @@
 import "server-only";
-import { and, asc, eq, inArray, sql } from "drizzle-orm";
+import { eq, sql } from "drizzle-orm";
 import { db } from "@/db";
-import { applicationRevisions, decisions, permits, users, type DecisionKind, type PermitState } from "@/db/schema";
+import {
+  applicationRevisions,
+  decisions,
+  institutionSettings,
+  permits,
+  users,
+  type DecisionKind,
+  type PermitState,
+} from "@/db/schema";
 import { TIER_LABELS, type Tier } from "@/lib/hazard";
 import { effectivePermitState, todayIn } from "@/lib/permits/dates";
-import { institutionTimeZone } from "@/lib/permits/queries";
 import { printAudience } from "@/lib/pdf/content";
 import { AUDIENCE_LABELS } from "@/lib/validation/application";
 import { isWellFormedCode } from "./code";
@@ -44,10 +51,10 @@ const SIGNATURE_KINDS: DecisionKind[] = ["recommend", "approve", "revoke"];
 /** The permit behind a verification code, or null for an unknown or malformed code (told apart nowhere). */
 export async function findPublicPermit(code: string, now: Date = new Date()): Promise<PublicPermit | null> {
   if (!isWellFormedCode(code)) return null;
+  // One round trip: the permit, the institution's time zone and the signatures together (this page
+  // is the one a busy open day loads most; docs/performance.md).
   const [row] = await db
     .select({
-      id: permits.id,
-      revisionId: permits.revisionId,
       number: permits.number,
       state: permits.state,
       tier: permits.tier,
@@ -62,6 +69,15 @@ export async function findPublicPermit(code: string, now: Date = new Date()): Pr
       lastDay: sql<string | null>`${applicationRevisions.content}->'event'->>'lastDay'`,
       audience: sql<string | null>`${applicationRevisions.content}->'event'->>'audience'`,
       audienceSize: sql<string | null>`${applicationRevisions.content}->'event'->>'audienceSize'`,
+      timeZone: sql<string | null>`(SELECT ${institutionSettings.timeZone} FROM ${institutionSettings} LIMIT 1)`,
+      signers: sql<PublicSigner[]>`(
+        SELECT coalesce(json_agg(json_build_object('name', d.signer_name, 'meaning', d.meaning, 'kind', d.kind)
+                                 ORDER BY d.signed_at), '[]'::json)
+        FROM ${decisions} d
+        WHERE d.revision_id = ${permits.revisionId} AND d.kind IN (${sql.join(
+          SIGNATURE_KINDS.map((k) => sql`${k}::decision_kind`),
+          sql`, `,
+        )}))`,
     })
     .from(permits)
     .innerJoin(users, eq(users.id, permits.holderId))
@@ -70,14 +86,8 @@ export async function findPublicPermit(code: string, now: Date = new Date()): Pr
     .limit(1);
   if (!row) return null;
 
-  const [timeZone, signers] = await Promise.all([
-    institutionTimeZone(),
-    db
-      .select({ name: decisions.signerName, meaning: decisions.meaning, kind: decisions.kind })
-      .from(decisions)
-      .where(and(eq(decisions.revisionId, row.revisionId), inArray(decisions.kind, SIGNATURE_KINDS)))
-      .orderBy(asc(decisions.signedAt)),
-  ]);
+  const timeZone = row.timeZone || "UTC";
+  const signers = row.signers;
   const today = todayIn(timeZone, now);
   const tier = row.tier as Tier;
   return {

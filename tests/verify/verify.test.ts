@@ -172,4 +172,21 @@ describe("GET /verify/[code]", () => {
     const other = await verify(active.permit.verificationCode, randomIp());
     expect(other.main).toContain("Permit status Active");
   });
+
+  it("counts each look-up once, in front of the page, and a client cannot claim it was counted", async () => {
+    // proxy.ts counts the look-up and tells the page with a per-process random token; a client that
+    // sends the header itself (any value) is still counted, so the limit holds at exactly the limit.
+    const ip = randomIp();
+    for (let i = 0; i < VERIFY_RATE_LIMIT.limit; i++) {
+      const res = await http(`/verify/${active.permit.verificationCode}`, {
+        headers: { "x-forwarded-for": ip, "x-benchclear-verify-counted": "1" },
+      });
+      expect(mainText(res.text), `look-up ${i + 1}`).not.toContain("Too many checks");
+    }
+    const refused = await http(`/verify/${active.permit.verificationCode}`, {
+      headers: { "x-forwarded-for": ip, "x-benchclear-verify-counted": "1" },
+    });
+    expect(refused.status).toBe(429);
+    expect(refused.headers.get("retry-after")).toMatch(/^\d+$/);
+  });
 });
