@@ -69,6 +69,8 @@ export const permits = pgTable(
     unique("permit_year_seq_key").on(t.year, t.seq),
     index("permit_holder_idx").on(t.holderId),
     index("permit_valid_to_idx").on(t.state, t.validTo),
+    // The permit list's order (lib/permits/queries.ts listPermits).
+    index("permit_list_order_idx").on(t.validTo, t.issuedAt.desc(), t.id),
     check("permit_window", sql`${t.validFrom} <= ${t.validTo}`),
   ],
 );

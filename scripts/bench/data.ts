@@ -83,7 +83,7 @@ export function makeDataset(env: Env, base: string, database: string, n: number)
     { encoding: "utf8", env: { ...process.env, PGPASSWORD: env.LOCAL_PG_PASSWORD } },
   );
   if (result.status !== 0) throw new Error(`generating ${n} permits failed: ${result.stderr}`);
-  psql(env, "ANALYZE", database);
+  psql(env, "VACUUM ANALYZE", database);
   const seconds = (Date.now() - started) / 1000;
   const counts: Record<string, number> = {};
   for (const table of [

@@ -3,6 +3,8 @@
 //   npm run bench                          1k, 10k and 100k permits, 10 s per route and side
 //   npm run bench -- --sizes=1000 --duration=1 --smoke   the quick run `npm test` does
 //   options: --sizes=a,b,c  --duration=seconds  --connections=16  --no-pdf  --no-js  --out=docs/performance.md
+//            --profile   the app server writes a V8 CPU profile (node --cpu-prof) per size; the run
+//                        prints where its time went (scripts/bench/profile.ts) and keeps the file
 //
 // For each size: a fresh database (scripts/bench/data.ts), the production build on its own port and
 // the baseline (scripts/bench/baseline.mjs) running the SQL the app ran for each route, captured from
@@ -38,6 +40,7 @@ import {
 import { nextCommand } from "../lib/next-server.mjs";
 import { statementsFromLog, type Statement } from "./capture";
 import { databaseUrlFor, ensureBase, makeDataset, type Dataset } from "./data";
+import { newestProfile, profileMarkdown, summarizeProfile } from "./profile";
 import { renderMarkdown } from "./report";
 
 // ---------------------------------------------------------------------------------------------
@@ -55,6 +58,7 @@ const DURATION_S = Number(args.get("duration") ?? (SMOKE ? 1 : 10));
 const CONNECTIONS = Number(args.get("connections") ?? 16);
 const WITH_PDF = !args.has("no-pdf");
 const WITH_JS = !args.has("no-js");
+const PROFILE = args.has("profile");
 const OUT = args.get("out") ?? (SMOKE ? null : "docs/performance.md");
 // The bench's own ports: TEST_PORT + 700 for the app, + 10 for the baseline (4080/4090 for 3380).
 const APP_PORT = Number(process.env.BENCH_APP_PORT ?? Number(process.env.TEST_PORT ?? 3300) + 700);
@@ -235,10 +239,16 @@ function appEnv(env: Env, database: string): Env {
   };
 }
 
-async function startApp(env: Env, database: string): Promise<App> {
+async function startApp(env: Env, database: string, profileDir?: string): Promise<App> {
   await requireFreePort(APP_PORT, "the benchmark's app server", "BENCH_APP_PORT");
   const logFile = path.join(BENCH_DIR, `app-${APP_PORT}.log`);
-  const child = startChild("bench app", ...nextCommand(["start", "-p", String(APP_PORT), "-H", "127.0.0.1"]), {
+  const [command, commandArgs] = nextCommand(["start", "-p", String(APP_PORT), "-H", "127.0.0.1"]) as [
+    string,
+    string[],
+  ];
+  // node --cpu-prof writes the profile when the server exits (it does on SIGTERM).
+  const profileArgs = profileDir ? ["--cpu-prof", `--cpu-prof-dir=${profileDir}`] : [];
+  const child = startChild("bench app", command, [...profileArgs, ...commandArgs], {
     env: appEnv(env, database),
     stdio: ["ignore", fs.openSync(logFile, "w"), fs.openSync(logFile, "a")],
   });
@@ -634,7 +644,9 @@ async function main() {
       console.log(`  ${JSON.stringify(dataset.counts)} in ${round(dataset.seconds)} s`);
       const f = fixtures(env, database);
       const list = targets(f);
-      const app = await startApp(env, database);
+      const profileDir = PROFILE ? path.join(BENCH_DIR, `profile-${n}`) : undefined;
+      if (profileDir) fs.rmSync(profileDir, { recursive: true, force: true });
+      const app = await startApp(env, database, profileDir);
       children.push(app.child);
       const plan = await capture(env, database, app, list, f);
       const planFile = path.join(BENCH_DIR, `plan-${n}.json`);
@@ -694,6 +706,12 @@ async function main() {
       await stopChild(baseline);
       await stopChild(app.child);
       children.length = 0;
+      const profileFile = profileDir ? newestProfile(profileDir) : null;
+      if (profileFile)
+        console.log(
+          `\n${n} permits: ${profileMarkdown(summarizeProfile(profileFile))}\n(${path.relative(root, profileFile)})\n`,
+        );
+      else if (profileDir) console.log(`${n} permits: the app server wrote no CPU profile in ${profileDir}`);
       if (!SMOKE) psql(env, `DROP DATABASE IF EXISTS ${database} WITH (FORCE)`);
     }
     if (WITH_PDF) result.pdf = pdfFigures(SMOKE ? 5 : 200);

@@ -258,6 +258,67 @@ describe("who sees which permits", () => {
     expect(revokedOnly.rows.map((r) => r.id)).not.toContain(permit.id);
   });
 
+  it("pages active permits first, soonest end first, then the rest, with no row lost or repeated at the seam", async () => {
+    const team = await createTeam();
+    const issued = [];
+    for (let i = 0; i < 6; i++) issued.push((await issuedPermit(team)).permit);
+    // Three revoked: they sort after every active permit even though their window is still open.
+    for (const permit of issued.slice(0, 3)) {
+      await revokePermit(asActor(team.officer), permit.id, {
+        expectedVersion: permit.version,
+        password: TEST_PASSWORD,
+        reason: "Ordering check.",
+      });
+    }
+    const stored = await getDb()
+      .select({ id: permits.id, state: permits.state, validTo: permits.validTo, issuedAt: permits.issuedAt })
+      .from(permits)
+      .where(eq(permits.holderId, team.instructor.id));
+    // The expected order, written out from the rule the list promises (active first; within each half
+    // the earliest last day first, then the newest issue first), sorted here in JavaScript.
+    const expected = [...stored]
+      .sort(
+        (a, b) =>
+          Number(a.state === "revoked") - Number(b.state === "revoked") ||
+          a.validTo.localeCompare(b.validTo) ||
+          b.issuedAt.getTime() - a.issuedAt.getTime(),
+      )
+      .map((p) => p.id);
+    const seen: string[] = [];
+    for (let page = 1; page <= 4; page++) {
+      const list = await listPermits(asActor(team.instructor), { page, pageSize: 2 });
+      expect(list.total).toBe(6);
+      seen.push(...list.rows.map((r) => r.id));
+    }
+    expect(seen).toEqual(expected);
+    expect(seen.slice(0, 3).every((id) => stored.find((p) => p.id === id)!.state === "active")).toBe(true);
+    // Filtered to one state, the same rows in the same order.
+    const revoked = await listPermits(asActor(team.instructor), { state: "revoked" });
+    expect(revoked.rows.map((r) => r.id)).toEqual(expected.slice(3));
+    expect(revoked.rows.every((r) => r.state === "revoked")).toBe(true);
+    // A day after every window has closed, all six are in the second half: expired ones and revoked
+    // ones, ordered by last day alone.
+    const later = new Date(
+      Date.parse(
+        `${stored
+          .map((p) => p.validTo)
+          .sort()
+          .at(-1)}T12:00:00Z`,
+      ) +
+        2 * 86_400_000,
+    );
+    const afterwards = await listPermits(asActor(team.instructor), {}, later);
+    expect(afterwards.rows.map((r) => r.state).sort()).toEqual([
+      "expired",
+      "expired",
+      "expired",
+      "revoked",
+      "revoked",
+      "revoked",
+    ]);
+    expect((await listPermits(asActor(team.instructor), { state: "active" }, later)).total).toBe(0);
+  });
+
   it("lists a permit ending within 30 days among the expiring ones", async () => {
     const team = await createTeam();
     const { permit } = await issuedPermit(team);
