@@ -1,7 +1,7 @@
 "use client";
 
 import { useEffect } from "react";
-import { Button, ButtonLink } from "./_components/button";
+import { buttonClasses } from "./_components/button-classes";
 import { StatusPage } from "./_components/status-page";
 
 // Errors below the root layout land here. The message and stack stay in the server log; the page
@@ -16,10 +16,14 @@ export default function ErrorPage({ error, reset }: { error: Error & { digest?: 
       title="Something went wrong"
       actions={
         <>
-          <Button onClick={() => reset()}>Try again</Button>
-          <ButtonLink href="/" variant="secondary">
+          {/* A plain button and link (no next/link): this boundary's code loads on every page. */}
+          <button type="button" className={buttonClasses()} onClick={() => reset()}>
+            Try again
+          </button>
+          {/* eslint-disable-next-line @next/next/no-html-link-for-pages -- a full load on purpose: no client code here */}
+          <a href="/" className={buttonClasses({ variant: "secondary" })}>
             Go to the dashboard
-          </ButtonLink>
+          </a>
         </>
       }
     >

@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { ButtonLink } from "./_components/button";
+import { buttonClasses } from "./_components/button-classes";
 import { StatusPage } from "./_components/status-page";
 
 export const metadata: Metadata = { title: "Page not found" };
@@ -11,10 +11,15 @@ export default function NotFound() {
       title="Page not found"
       actions={
         <>
-          <ButtonLink href="/">Go to the dashboard</ButtonLink>
-          <ButtonLink href="/permits" variant="secondary">
+          {/* Plain links: this page must load no client code (docs/performance.md). */}
+          {/* eslint-disable-next-line @next/next/no-html-link-for-pages -- a full load on purpose: no client code here */}
+          <a href="/" className={buttonClasses()}>
+            Go to the dashboard
+          </a>
+          {/* eslint-disable-next-line @next/next/no-html-link-for-pages -- a full load on purpose: no client code here */}
+          <a href="/permits" className={buttonClasses({ variant: "secondary" })}>
             Permits
-          </ButtonLink>
+          </a>
         </>
       }
     >

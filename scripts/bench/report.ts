@@ -105,7 +105,10 @@ export function renderMarkdown(r: BenchResult): string {
     out.push("");
     out.push("## First-load JavaScript (gzip, module scripts the page names)");
     out.push("");
-    out.push(`Framework runtime (the build's root main files, loaded by every page): ${r.js.runtimeKb} kB.`);
+    out.push(
+      `Framework runtime (what a page with no client components of its own loads: the not-found page): ${r.js.runtimeKb} kB` +
+        (r.js.rootMainKb ? `, of which the build's root main files ${r.js.rootMainKb} kB.` : "."),
+    );
     out.push("");
     out.push("| route | kB gzip | files |");
     out.push("| --- | ---: | ---: |");
