@@ -1,7 +1,163 @@
-// ESLint: Next.js's core-web-vitals and TypeScript rules. Prettier owns formatting (npm run lint
-// runs both).
+// ESLint: Next.js's core-web-vitals and TypeScript rules, plus the project's boundaries (below).
+// Prettier owns formatting (npm run lint runs both).
+import fs from "node:fs";
 import nextVitals from "eslint-config-next/core-web-vitals";
 import nextTs from "eslint-config-next/typescript";
+
+// The direction of dependence, checked on every import (DEVELOPERS.md explains it): app/ and
+// scripts/ use lib/; lib/ uses db/; each lib domain imports only the domains listed for it here, so
+// the map is a one-way graph. A new arrow is a change to this table, reviewed like any other.
+// Names are folders (lib/x/) or single-file domains (lib/x.ts). An entry "x/file.ts" allows that one
+// file of domain x, a leaf below the rest of x (lib/http/client-ip.ts sits below auth, while
+// lib/http/route.ts sits above it). Every lib domain may use db/.
+const LIB_DOMAINS = {
+  // Leaves: no project imports.
+  hazard: [], // the engine: pure TypeScript, runs in the browser too
+  env: [],
+  errors: [], // the one error type and its status table
+  caution: [],
+  client: [], // browser helpers for forms and roles
+  "about-figures": [], // the "About these figures" note
+  "tier-colours": ["hazard"],
+  "tier-glyph": ["hazard"],
+  "signal-word": ["hazard"],
+  // Infrastructure every domain may lean on.
+  audit: [],
+  storage: ["env"],
+  ratelimit: ["env", "errors"],
+  settings: ["audit", "auth"],
+  auth: ["audit", "env", "errors", "ratelimit", "http/client-ip.ts", "http/return-path.ts"],
+  http: ["auth", "env", "errors", "ratelimit"],
+  // Queueing mail inside a domain's transaction; an invitation's link is rebuilt from its id.
+  outbox: ["audit", "env", "users/invitation-token.ts"],
+  signing: ["audit", "auth", "errors", "ratelimit"], // password re-ask, content hash, separation of duties
+  ops: ["storage"], // health checks and graceful drain
+  // Domains, lower ones first.
+  rules: ["audit", "auth", "errors", "hazard"],
+  "hazard-rules": ["hazard", "rules"],
+  users: ["audit", "auth", "env", "errors", "outbox", "ratelimit"],
+  apparatus: ["audit", "auth", "errors", "hazard", "hazard-rules"],
+  permits: ["apparatus", "audit", "auth", "errors", "hazard", "outbox", "rules", "settings", "signing", "users"],
+  applications: [
+    "apparatus",
+    "audit",
+    "auth",
+    "errors",
+    "hazard",
+    "hazard-rules",
+    "outbox",
+    "permits",
+    "rules",
+    "settings",
+    "signing",
+    "storage",
+    "users",
+  ],
+  review: [
+    "applications",
+    "audit",
+    "auth",
+    "errors",
+    "hazard",
+    "outbox",
+    "permits",
+    "rules",
+    "settings",
+    "signing",
+    "users",
+  ],
+  verify: [
+    "auth",
+    "errors",
+    "hazard",
+    "permits",
+    "ratelimit",
+    "settings",
+    "applications/schemas.ts",
+    "http/client-ip.ts",
+    "pdf/content.ts",
+  ],
+  calendar: ["audit", "auth", "env", "errors", "outbox", "permits", "settings"],
+  pdf: [
+    "applications",
+    "audit",
+    "auth",
+    "caution",
+    "env",
+    "errors",
+    "hazard",
+    "permits",
+    "settings",
+    "signing",
+    "signal-word",
+    "storage",
+    "about-figures",
+    "tier-colours",
+    "tier-glyph",
+    "verify",
+  ],
+  // Delivering mail renders emails/ and attaches permit PDFs and calendar files.
+  mail: ["audit", "calendar", "env", "errors", "outbox", "pdf", "settings", "users/invitation-token.ts"],
+  jobs: ["audit", "env", "errors", "mail", "outbox", "permits", "rules", "settings"],
+};
+// emails/ renders messages the outbox holds; it may use these lib domains and nothing else.
+const EMAILS_MAY_USE = ["about-figures", "hazard", "outbox", "tier-colours", "tier-glyph"];
+// db/ is below lib/: only the pure engine's types and the environment.
+const DB_MAY_USE = ["env", "hazard"];
+
+const isSingleFile = (name) => fs.existsSync(new URL(`./lib/${name}.ts`, import.meta.url));
+const libPath = (name) => (isSingleFile(name) ? `./lib/${name}.ts` : `./lib/${name}`);
+const allLib = Object.keys(LIB_DOMAINS);
+const domainsOf = (allowed) => allowed.filter((a) => !a.includes("/"));
+// Leaf files allowed by name, grouped by their domain: { http: ["./client-ip.ts", …] }.
+const leavesOf = (allowed) =>
+  allowed
+    .filter((a) => a.includes("/"))
+    .reduce((acc, a) => {
+      const [domain, file] = a.split("/");
+      (acc[domain] ??= []).push(`./${file}`);
+      return acc;
+    }, {});
+const notAllowed = (own, allowed) =>
+  allLib.filter((d) => d !== own && !domainsOf(allowed).includes(d) && !leavesOf(allowed)[d]).map(libPath);
+const describe = (allowed) => allowed.join(", ") || "no other lib domain";
+
+const boundaryZones = [
+  ...allLib.flatMap((domain) => {
+    const allowed = LIB_DOMAINS[domain];
+    const message = `lib/${domain} may import only: ${describe(allowed)} (eslint.config.mjs, DEVELOPERS.md).`;
+    return [
+      {
+        target: libPath(domain),
+        // mail renders the e-mail bodies
+        from: [...notAllowed(domain, allowed), "./emails"].filter((p) => !(domain === "mail" && p === "./emails")),
+        message,
+      },
+      // A domain allowed single leaf files of another: everything else of it stays out.
+      ...Object.entries(leavesOf(allowed)).map(([other, files]) => ({
+        target: libPath(domain),
+        from: libPath(other),
+        except: files,
+        message,
+      })),
+    ];
+  }),
+  {
+    target: ["./lib", "./db", "./emails"],
+    from: ["./app", "./scripts", "./tests"],
+    message: "lib/, db/ and emails/ are below app/ and scripts/: move what both need into lib/.",
+  },
+  {
+    target: "./db",
+    from: [...notAllowed(null, DB_MAY_USE), "./emails"],
+    message: `db/ is below lib/: it may use only ${DB_MAY_USE.join(", ")}.`,
+  },
+  {
+    target: "./emails",
+    from: notAllowed(null, EMAILS_MAY_USE),
+    message: `emails/ may import only ${describe(EMAILS_MAY_USE)} from lib/.`,
+  },
+];
 
 const config = [
   ...nextVitals,
@@ -21,6 +177,14 @@ const config = [
   {
     rules: {
       "@typescript-eslint/no-unused-vars": ["error", { argsIgnorePattern: "^_", varsIgnorePattern: "^_" }],
+    },
+  },
+  {
+    // Boundaries: no import cycles, and imports only in the directions of the map above.
+    files: ["app/**", "lib/**", "db/**", "emails/**", "scripts/**", "*.ts"],
+    rules: {
+      "import/no-cycle": ["error", { ignoreExternal: true }],
+      "import/no-restricted-paths": ["error", { zones: boundaryZones }],
     },
   },
   {

@@ -1,7 +1,7 @@
 import type { CSSProperties, ReactNode } from "react";
 import type { Tier } from "@/lib/hazard/types";
 import { ABOUT_FIGURES_TEXT, ABOUT_FIGURES_TITLE, INFO_SYMBOL } from "@/lib/about-figures";
-import { TIER_COLOURS } from "@/lib/pdf/theme";
+import { TIER_COLOURS } from "@/lib/tier-colours";
 import { TIER_GLYPH_VIEWBOX, TIER_GLYPHS } from "@/lib/tier-glyph";
 
 // The building blocks every Benchclear e-mail is made of, and the one frame they sit in. An e-mail is

@@ -1,6 +1,6 @@
 import { TIER_LABELS } from "@/lib/hazard";
 import type { Tier } from "@/lib/hazard/types";
-import type { MailMessage } from "@/lib/mail/outbox";
+import type { MailMessage } from "@/lib/outbox";
 import type { EmailContent, EmailFrame } from "./components";
 
 // What an e-mail body may know besides its own data: where the app lives, the institution's name,

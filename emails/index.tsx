@@ -1,5 +1,5 @@
 import { renderToStaticMarkup } from "./render";
-import type { MailMessage } from "@/lib/mail/outbox";
+import type { MailMessage } from "@/lib/outbox";
 import { applicationApprovedEmail } from "./application-approved";
 import { applicationRecommendedEmail } from "./application-recommended";
 import { applicationRejectedEmail } from "./application-rejected";

@@ -15,7 +15,7 @@ import { revokePermit } from "@/lib/permits/revoke";
 import { decide } from "@/lib/review/decide";
 import { currentChainRules } from "@/lib/rules/queries";
 import { tierChain } from "@/lib/rules/chain";
-import { applicationDraftSchema, type ApplicationDraft } from "@/lib/validation/application";
+import { applicationDraftSchema, type ApplicationDraft } from "@/lib/applications/schemas";
 
 const STORY_DONE = "demo.story_seeded";
 

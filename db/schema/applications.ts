@@ -48,7 +48,7 @@ export const applications = pgTable(
     state: applicationStateEnum().notNull().default("draft"),
     // Bumped by every state transition and every draft save: optimistic concurrency.
     version: integer().notNull().default(1),
-    // The working copy the form edits (ApplicationDraft, lib/validation/application.ts).
+    // The working copy the form edits (ApplicationDraft, lib/applications/schemas.ts).
     draft: jsonb().$type<Record<string, unknown>>().notNull().default({}),
     draftStep: smallint().notNull().default(1),
     // Users named on the application (responsible person, operators): they may not decide on it.

@@ -6,8 +6,8 @@ import { writeAudit } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
 import { assessSetup } from "@/lib/hazard";
 import { currentTierRules } from "@/lib/hazard-rules";
-import { AppError, conflict, forbidden, notFound } from "@/lib/http/errors";
-import type { ApparatusCreateInput, ApparatusUpdateInput } from "@/lib/validation/apparatus";
+import { AppError, conflict, forbidden, notFound } from "@/lib/errors";
+import type { ApparatusCreateInput, ApparatusUpdateInput } from "@/lib/apparatus/schemas";
 import { canReadApparatus, canWriteApparatus } from "./access";
 
 // Writes to the apparatus registry. A record is never edited in place: every change inserts a new

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { apparatusCreateSchema, setupTextSchema } from "@/lib/validation/apparatus";
+import { apparatusCreateSchema, setupTextSchema } from "@/lib/apparatus/schemas";
 import { setupFromText } from "./setup-text";
 
 // The registry form's schema: the set-up as typed, checked field by field as the server will check

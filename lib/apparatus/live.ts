@@ -3,7 +3,7 @@
 // application form say the same, and tests can call it directly.
 
 import { assessSetup, type Assessment, type SetupInput, type TierRules } from "@/lib/hazard";
-import type { SetupText } from "@/lib/validation/apparatus";
+import type { SetupText } from "@/lib/apparatus/schemas";
 import { BODY_RESISTANCE_FIELD, GAP_FIELDS, SOURCE_FIELDS, type Path, type PathIssue } from "./setup-text";
 
 /** "G1" for the first spark gap: gaps have no label of their own, so the form numbers them. */

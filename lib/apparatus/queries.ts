@@ -3,8 +3,8 @@ import { and, asc, desc, eq, ilike, isNull, or, sql, type SQL } from "drizzle-or
 import { db } from "@/db";
 import { apparatus, apparatusRevisions, departments, users } from "@/db/schema";
 import { assertCan, can, type CurrentUser } from "@/lib/auth/guards";
-import { notFound } from "@/lib/http/errors";
-import type { ApparatusListQuery } from "@/lib/validation/apparatus";
+import { notFound } from "@/lib/errors";
+import type { ApparatusListQuery } from "@/lib/apparatus/schemas";
 import { canReadApparatus, canWriteApparatus } from "./access";
 
 // Reads of the apparatus registry. Every read is limited to the records the user may see

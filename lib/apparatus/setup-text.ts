@@ -23,8 +23,8 @@ import {
   type SourceKindName,
   type SourceQuantityField,
   type SourceText,
-} from "@/lib/validation/apparatus";
-import { setupInputSchema } from "@/lib/validation/setup";
+} from "@/lib/apparatus/schemas";
+import { setupInputSchema } from "@/lib/apparatus/setup-schema";
 
 export type Path = (string | number)[];
 export type PathIssue = { path: Path; message: string };

@@ -6,7 +6,7 @@ import { db } from "@/db";
 import { applications, attachments, type ApplicationState } from "@/db/schema";
 import { writeAudit } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
-import { AppError, conflict, notFound } from "@/lib/http/errors";
+import { AppError, conflict, notFound } from "@/lib/errors";
 import { getStorage, newKey } from "@/lib/storage";
 import { EDITABLE_STATES } from "./access";
 import { attachmentListedInRevision, getAttachmentForDownload } from "./queries";

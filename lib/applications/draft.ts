@@ -3,7 +3,7 @@
 // and the attachments from the database, so the browser's figures are never taken on trust.
 
 import { assessSetup, requiredControls, type Assessment, type TierRules } from "@/lib/hazard";
-import { formatPath, type FieldIssue } from "@/lib/http/errors";
+import { formatPath, type FieldIssue } from "@/lib/errors";
 import {
   apparatusStepSchema,
   applicationContentSchema,
@@ -14,7 +14,7 @@ import {
   type ApplicationContent,
   type ApplicationDraft,
   type AttachmentRef,
-} from "@/lib/validation/application";
+} from "@/lib/applications/schemas";
 
 /** What the applicant confirms on step 6; stored with each revision as the exact text confirmed. */
 export const ATTESTATION_TEXT =

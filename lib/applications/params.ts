@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { notFound } from "@/lib/http/errors";
+import { notFound } from "@/lib/errors";
 
 const uuid = z.uuid();
 

@@ -11,8 +11,8 @@ import {
 } from "@/db/schema";
 import { likePattern } from "@/lib/apparatus/queries";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
-import { notFound } from "@/lib/http/errors";
-import { applicationDraftSchema, type ApplicationListQuery, type AttachmentRef } from "@/lib/validation/application";
+import { notFound } from "@/lib/errors";
+import { applicationDraftSchema, type ApplicationListQuery, type AttachmentRef } from "@/lib/applications/schemas";
 import { canReadApplication, isEditable } from "./access";
 
 // Reads of applications for their applicant (the lists, the draft the form edits, attachments). The

@@ -2,7 +2,7 @@ import "server-only";
 import { and, eq, inArray, sql } from "drizzle-orm";
 import { applications, type Application, type ApplicationState } from "@/db/schema";
 import type { Tx } from "@/lib/audit";
-import { conflict } from "@/lib/http/errors";
+import { conflict } from "@/lib/errors";
 
 // The application state machine. Every state change goes through transition(), inside the caller's
 // transaction (which also writes the audit row and any outbox row). The UPDATE is guarded in SQL by

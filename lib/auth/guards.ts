@@ -5,7 +5,7 @@ import { cache } from "react";
 import { auth } from "@/auth";
 import { db } from "@/db";
 import { users, type Role } from "@/db/schema";
-import { AppError, forbidden, unauthenticated } from "@/lib/http/errors";
+import { AppError, forbidden, unauthenticated } from "@/lib/errors";
 import { rolesHave, type Permission } from "./permissions";
 
 // The data-access gate. Every route handler, server action and server component that reads or

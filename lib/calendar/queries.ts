@@ -4,8 +4,8 @@ import { and, desc, eq, isNull, or, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { applicationRevisions, applications, permits, users } from "@/db/schema";
 import { env } from "@/lib/env";
-import { senderDomain } from "@/lib/mail/headers";
-import { institution } from "@/lib/mail/queries";
+import { senderDomain } from "@/lib/outbox/headers";
+import { readInstitutionSettings } from "@/lib/settings/queries";
 import { effectivePermitState, todayIn } from "@/lib/permits/dates";
 import { buildCalendar, permitEvents } from "./ics";
 
@@ -34,7 +34,7 @@ export async function calendarFeed(token: string, now = new Date()): Promise<str
     .where(and(eq(users.calendarToken, hashCalendarToken(token)), isNull(users.disabledAt)))
     .limit(1);
   if (!user) return null;
-  const { timeZone } = await institution();
+  const { timeZone } = await readInstitutionSettings();
   const today = todayIn(timeZone, now);
   const rows = await db
     .select({

@@ -133,7 +133,7 @@ function checkSource(source: unknown, index: number, namedByGap: boolean): void 
 
 /**
  * Throws HazardInputError (with the offending field's path) unless `input` is a SetupInput the engine
- * can assess. The zod schema in lib/validation/setup.ts runs this too, so the API and the engine refuse
+ * can assess. The zod schema in lib/apparatus/setup-schema.ts runs this too, so the API and the engine refuse
  * the same things.
  */
 export function validateSetupInput(input: unknown): asserts input is SetupInput {

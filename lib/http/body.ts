@@ -1,4 +1,4 @@
-import { AppError } from "./errors";
+import { AppError } from "@/lib/errors";
 
 // The one way Benchclear reads a request body: bytes are counted as they arrive and reading stops at
 // the limit with 413, whether or not the client sent a Content-Length, sent a false one, or sent the

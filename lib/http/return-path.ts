@@ -2,7 +2,7 @@
 // body, so it is resolved the way a browser resolves a link (WHATWG URL: tabs and newlines dropped,
 // `\` read as `/`, `//host` and `https:` leave the site) against a stand-in origin, and only the path
 // and query are kept — and only when the result is still on that origin. Anything else becomes "/".
-// No server-only import: the sign-in form uses the same rule through lib/validation/auth.ts.
+// No server-only import: the sign-in form uses the same rule through lib/auth/schemas.ts.
 
 /** A host name nobody can own (RFC 6761 `.invalid`): what "our origin" is while resolving. */
 const STAND_IN_ORIGIN = "https://benchclear.invalid";

@@ -4,7 +4,7 @@ import { env } from "@/lib/env";
 import { can, getCurrentUser, type CurrentUser } from "@/lib/auth/guards";
 import type { Permission } from "@/lib/auth/permissions";
 import { DEFAULT_BODY_LIMIT_BYTES, discardBody, readBodyBytes, readJsonBody } from "./body";
-import { AppError, errorBody, forbidden, fromZodError, unauthenticated } from "./errors";
+import { AppError, errorBody, forbidden, fromZodError, unauthenticated } from "@/lib/errors";
 
 // Every route handler is built with route(): one order for all of them — same-origin and content-type
 // checks for mutations, authenticate (401), permission (403), parse query and body with zod (422

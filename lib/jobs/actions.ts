@@ -3,8 +3,8 @@ import { and, asc, eq, inArray, isNull, lt, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { applications, decisions, permits, users } from "@/db/schema";
 import { writeAudit } from "@/lib/audit";
-import { institution } from "@/lib/mail/queries";
-import { queueMail } from "@/lib/mail/outbox";
+import { readInstitutionSettings } from "@/lib/settings/queries";
+import { queueMail } from "@/lib/outbox";
 import { addDays, todayIn } from "@/lib/permits/dates";
 import { currentReminderRules } from "@/lib/rules/queries";
 import { DEFAULT_SCHEDULE, CATCH_UP_DAYS, reminderDue, reminderKey, type ReminderPlan } from "./reminders";
@@ -169,7 +169,7 @@ async function queueReminder(permit: Candidate, plan: ReminderPlan) {
 
 export async function runReminders(options: { now?: Date } = {}): Promise<ReminderRunReport> {
   const now = options.now ?? new Date();
-  const { timeZone } = await institution();
+  const { timeZone } = await readInstitutionSettings();
   const today = todayIn(timeZone, now);
   const schedule = await reminderSchedule();
   const expired = await expirePermits(today, now);

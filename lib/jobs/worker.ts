@@ -2,7 +2,8 @@ import "server-only";
 import type PgBoss from "pg-boss";
 import { z } from "zod";
 import { deliverDueMail, OUTBOX_POLICY } from "@/lib/mail/actions";
-import { hasDueMail, institution } from "@/lib/mail/queries";
+import { hasDueMail } from "@/lib/mail/queries";
+import { readInstitutionSettings } from "@/lib/settings/queries";
 import type { SmtpSettings } from "@/lib/mail/transport";
 import { runReminders } from "./actions";
 import { createBoss, ensureQueues, QUEUES } from "./boss";
@@ -87,7 +88,7 @@ export async function startWorker(options: WorkerOptions = {}): Promise<RunningW
   });
 
   if (options.schedule !== false) {
-    const { timeZone } = await institution();
+    const { timeZone } = await readInstitutionSettings();
     await boss.schedule(QUEUES.reminders, REMINDER_CRON, {}, { tz: validTimeZone(timeZone) });
     await boss.send(QUEUES.reminders, {});
   }

@@ -6,8 +6,8 @@ import type { OutboxMail } from "@/db/schema";
 import { buildCalendar, permitEvents } from "@/lib/calendar/ics";
 import { env } from "@/lib/env";
 import { invitationToken, invitationUrl } from "@/lib/users/invitation-token";
-import { headerText, isPlainAddress, outboxMessageId, senderDomain } from "./headers";
-import type { MailMessage } from "./outbox";
+import { headerText, isPlainAddress, outboxMessageId, senderDomain } from "@/lib/outbox/headers";
+import type { MailMessage } from "@/lib/outbox";
 import { permitPdfAttachment } from "./permit-pdf";
 import { applicationDepartmentName, institution, permitMailFacts, type PermitMailFacts } from "./queries";
 

@@ -1,16 +1,9 @@
 import "server-only";
 import { and, count, desc, eq, inArray, sql } from "drizzle-orm";
 import { db } from "@/db";
-import {
-  applicationRevisions,
-  applications,
-  departments,
-  institutionSettings,
-  mailOutbox,
-  permits,
-  users,
-} from "@/db/schema";
+import { applicationRevisions, applications, departments, mailOutbox, permits, users } from "@/db/schema";
 import type { DbOrTx } from "@/lib/audit";
+import { readInstitutionSettings } from "@/lib/settings/queries";
 
 // Reads for the outbox: what a message's body needs besides its own data (institution, permit
 // details, how the recipient relates to the permit), which rows are due, and the outbox as the
@@ -21,12 +14,10 @@ export type OutboxStatus = (typeof OUTBOX_STATUSES)[number];
 
 export type Institution = { name: string; timeZone: string };
 
+/** The institution's name and time zone as mail words them. */
 export async function institution(tx: DbOrTx = db): Promise<Institution> {
-  const [row] = await tx
-    .select({ name: institutionSettings.name, timeZone: institutionSettings.timeZone })
-    .from(institutionSettings)
-    .limit(1);
-  return { name: row?.name || "your institution", timeZone: row?.timeZone || "UTC" };
+  const { name, timeZone } = await readInstitutionSettings(tx);
+  return { name: name ?? "your institution", timeZone };
 }
 
 export type PermitMailFacts = {

@@ -13,7 +13,8 @@ import {
   TierBlock,
   s,
 } from "./parts";
-import { INK, TIER_COLOURS } from "./theme";
+import { TIER_COLOURS } from "@/lib/tier-colours";
+import { INK } from "./theme";
 import type { PaperSize, PrintData } from "./types";
 
 // The bench card: one page to laminate and fix beside the apparatus. It says what to do before

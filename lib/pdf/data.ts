@@ -1,21 +1,14 @@
 import "server-only";
 import { and, asc, eq, inArray } from "drizzle-orm";
 import { db } from "@/db";
-import {
-  applicationRevisions,
-  applications,
-  decisions,
-  institutionSettings,
-  permits,
-  users,
-  type PermitState,
-} from "@/db/schema";
+import { applicationRevisions, applications, decisions, permits, users, type PermitState } from "@/db/schema";
 import { ROLE_LABELS } from "@/lib/auth/permissions";
 import { env } from "@/lib/env";
+import { readInstitutionSettings } from "@/lib/settings/queries";
 import { TIER_LABELS, type Assessment, type SetupInput, type Tier } from "@/lib/hazard";
-import { notFound } from "@/lib/http/errors";
+import { notFound } from "@/lib/errors";
 import { effectivePermitState, todayIn } from "@/lib/permits/dates";
-import { AUDIENCE_LABELS, EVENT_KIND_LABELS } from "@/lib/validation/application";
+import { AUDIENCE_LABELS, EVENT_KIND_LABELS } from "@/lib/applications/schemas";
 import { verificationUrl } from "@/lib/verify/code";
 import type { PrintData } from "./types";
 
@@ -59,19 +52,8 @@ export async function permitHead(permitId: string, now: Date): Promise<{ head: P
 }
 
 async function readSettings() {
-  const [row] = await db
-    .select({
-      name: institutionSettings.name,
-      timeZone: institutionSettings.timeZone,
-      emergencyContacts: institutionSettings.emergencyContacts,
-    })
-    .from(institutionSettings)
-    .limit(1);
-  return {
-    name: row?.name || DEFAULT_INSTITUTION,
-    timeZone: row?.timeZone || "UTC",
-    emergencyContacts: row?.emergencyContacts ?? [],
-  };
+  const settings = await readInstitutionSettings();
+  return { ...settings, name: settings.name ?? DEFAULT_INSTITUTION };
 }
 
 type Loose = Record<string, unknown>;

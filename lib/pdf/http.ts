@@ -1,6 +1,6 @@
 import "server-only";
 import { z } from "zod";
-import { AppError, notFound } from "@/lib/http/errors";
+import { AppError, notFound } from "@/lib/errors";
 import type { CurrentUser } from "@/lib/auth/guards";
 import { getPermitDocumentFor } from "./store";
 import type { DocumentKind, PaperSize } from "./types";

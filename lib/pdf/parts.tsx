@@ -7,7 +7,8 @@ import { hazardHeader, SAFETY_ALERT_SYMBOL } from "@/lib/signal-word";
 import { TIER_GLYPH_VIEWBOX, TIER_GLYPHS } from "@/lib/tier-glyph";
 import { printDay } from "./content";
 import { MONO, SANS } from "./fonts";
-import { INK, STATE_LOOK, TIER_COLOURS } from "./theme";
+import { TIER_COLOURS } from "@/lib/tier-colours";
+import { INK, STATE_LOOK } from "./theme";
 
 // Pieces the permit and the bench card share. Sizes are in points (1/72 in); the smallest text that
 // matters at the bench is 10 pt, the number and state are read from a step away.

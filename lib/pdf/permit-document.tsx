@@ -25,7 +25,8 @@ import {
   keepUnits,
   s,
 } from "./parts";
-import { INK, STATE_LOOK, TIER_COLOURS } from "./theme";
+import { TIER_COLOURS } from "@/lib/tier-colours";
+import { INK, STATE_LOOK } from "./theme";
 import type { PaperSize, PrintData } from "./types";
 
 // The permit as printed for the bench: Benchclear's own layout. The first screenful answers "may this

@@ -4,7 +4,7 @@ import { db } from "@/db";
 import { applications, permits, type PermitState } from "@/db/schema";
 import { writeAudit } from "@/lib/audit";
 import type { CurrentUser } from "@/lib/auth/guards";
-import { notFound } from "@/lib/http/errors";
+import { notFound } from "@/lib/errors";
 import { permitScope } from "@/lib/permits/queries";
 import { canonicalJson, sha256Hex } from "@/lib/signing/canonical";
 import { getStorage } from "@/lib/storage";

@@ -6,7 +6,6 @@ import {
   applications,
   decisions,
   departments,
-  institutionSettings,
   permits,
   users,
   type PermitState,
@@ -14,16 +13,12 @@ import {
 import type { DbOrTx } from "@/lib/audit";
 import { can, type CurrentUser } from "@/lib/auth/guards";
 import type { Assessment } from "@/lib/hazard";
+import { institutionTimeZone } from "@/lib/settings/queries";
 import { effectivePermitState, todayIn } from "./dates";
 
 // Reads of permits. Who sees a permit: its holder and the people named on its application, reviewers
 // of its department, and safety officers (permit.read.any). The effective state (active, expired,
 // revoked) is computed against the institution's calendar day, in SQL for lists and filters.
-
-export async function institutionTimeZone(tx: DbOrTx = db): Promise<string> {
-  const [row] = await tx.select({ timeZone: institutionSettings.timeZone }).from(institutionSettings).limit(1);
-  return row?.timeZone || "UTC";
-}
 
 export async function institutionToday(now: Date = new Date(), tx: DbOrTx = db): Promise<string> {
   return todayIn(await institutionTimeZone(tx), now);

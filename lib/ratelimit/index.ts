@@ -1,7 +1,7 @@
 import "server-only";
 import { sql } from "drizzle-orm";
 import { db } from "@/db";
-import { AppError } from "@/lib/http/errors";
+import { AppError } from "@/lib/errors";
 
 // The one rate limiter: every limit Benchclear applies is a named rule below, counted here. Rate limits kept in PostgreSQL, so a limit holds across app servers and restarts. Each key counts
 // hits in fixed windows of `windowSeconds`; the decision uses the sliding-window estimate

@@ -15,8 +15,8 @@ import { canReadApplication } from "@/lib/applications/access";
 import { transition } from "@/lib/applications/state";
 import { writeAudit, type DbOrTx, type Tx } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
-import { AppError, conflict, forbidden, invalidField, notFound } from "@/lib/http/errors";
-import { queueMail } from "@/lib/mail/outbox";
+import { AppError, conflict, forbidden, invalidField, notFound } from "@/lib/errors";
+import { queueMail } from "@/lib/outbox";
 import {
   addDays,
   defaultValidity,

@@ -6,7 +6,7 @@ import { applications, commentReplies, decisions } from "@/db/schema";
 import { writeAudit } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
 import { canReadApplication } from "@/lib/applications/access";
-import { conflict, notFound } from "@/lib/http/errors";
+import { conflict, notFound } from "@/lib/errors";
 
 // The applicant answers a reviewer's return comment ("the gap is 9.4 mm, measured twice"). The
 // signed decision is never changed: the reply is its own row, in the same transaction as its audit

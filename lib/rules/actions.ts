@@ -5,7 +5,7 @@ import { isUniqueViolation } from "@/db/errors";
 import { ruleSets } from "@/db/schema";
 import { writeAudit } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
-import { AppError, conflict } from "@/lib/http/errors";
+import { AppError, conflict } from "@/lib/errors";
 import { currentTierRuleSet } from "./queries";
 import type { AdoptRulesInput } from "./schemas";
 

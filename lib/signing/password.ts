@@ -4,7 +4,7 @@ import { db } from "@/db";
 import { users } from "@/db/schema";
 import type { CurrentUser } from "@/lib/auth/guards";
 import { verifyPassword } from "@/lib/auth/password";
-import { AppError } from "@/lib/http/errors";
+import { AppError } from "@/lib/errors";
 import { attempt, clear, peek, tooMany } from "@/lib/ratelimit";
 
 // Approve, reject and revoke re-ask the signer's password first, outside the transaction of the

@@ -7,8 +7,8 @@ import { writeAudit } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
 import { hashPassword, verifyPassword } from "@/lib/auth/password";
 import { passwordProblem } from "@/lib/auth/password-policy";
-import { AppError, conflict, notFound } from "@/lib/http/errors";
-import { queueInvitationMail } from "@/lib/mail/invitations";
+import { AppError, conflict, notFound } from "@/lib/errors";
+import { queueInvitationMail } from "@/lib/outbox/invitations";
 import { invitationToken, invitationUrl } from "./invitation-token";
 import { attempt, clear, peek, tooMany } from "@/lib/ratelimit";
 

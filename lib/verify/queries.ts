@@ -1,19 +1,12 @@
 import "server-only";
 import { eq, sql } from "drizzle-orm";
 import { db } from "@/db";
-import {
-  applicationRevisions,
-  decisions,
-  institutionSettings,
-  permits,
-  users,
-  type DecisionKind,
-  type PermitState,
-} from "@/db/schema";
+import { applicationRevisions, decisions, permits, users, type DecisionKind, type PermitState } from "@/db/schema";
 import { TIER_LABELS, type Tier } from "@/lib/hazard";
 import { effectivePermitState, todayIn } from "@/lib/permits/dates";
 import { printAudience } from "@/lib/pdf/content";
-import { AUDIENCE_LABELS } from "@/lib/validation/application";
+import { AUDIENCE_LABELS } from "@/lib/applications/schemas";
+import { DEFAULT_TIME_ZONE, institutionTimeZoneSql } from "@/lib/settings/queries";
 import { isWellFormedCode } from "./code";
 
 // What the public verification page may show about a permit, and nothing more (product.md, security.md:
@@ -69,7 +62,7 @@ export async function findPublicPermit(code: string, now: Date = new Date()): Pr
       lastDay: sql<string | null>`${applicationRevisions.content}->'event'->>'lastDay'`,
       audience: sql<string | null>`${applicationRevisions.content}->'event'->>'audience'`,
       audienceSize: sql<string | null>`${applicationRevisions.content}->'event'->>'audienceSize'`,
-      timeZone: sql<string | null>`(SELECT ${institutionSettings.timeZone} FROM ${institutionSettings} LIMIT 1)`,
+      timeZone: institutionTimeZoneSql,
       signers: sql<PublicSigner[]>`(
         SELECT coalesce(json_agg(json_build_object('name', d.signer_name, 'meaning', d.meaning, 'kind', d.kind)
                                  ORDER BY d.signed_at), '[]'::json)
@@ -86,7 +79,7 @@ export async function findPublicPermit(code: string, now: Date = new Date()): Pr
     .limit(1);
   if (!row) return null;
 
-  const timeZone = row.timeZone || "UTC";
+  const timeZone = row.timeZone || DEFAULT_TIME_ZONE;
   const signers = row.signers;
   const today = todayIn(timeZone, now);
   const tier = row.tier as Tier;

@@ -2,7 +2,7 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { editableQuantity, setupFromText, setupToText } from "@/lib/apparatus/setup-text";
 import { assessSetup, parseQuantity, type Dimension, type SetupInput } from "@/lib/hazard";
-import { setupTextSchema } from "@/lib/validation/apparatus";
+import { setupTextSchema } from "@/lib/apparatus/schemas";
 import { decades, setupArb } from "../hazard/arbitraries";
 
 // The text form of a set-up (what the form shows and autosaves) against the engine's numbers.

@@ -5,7 +5,7 @@ import { applicationRevisions, applications, auditEvents, mailOutbox } from "@/d
 import { ATTESTATION_TEXT } from "@/lib/applications/draft";
 import { assessSetup, requiredControls } from "@/lib/hazard";
 import { revisionHash } from "@/lib/signing/canonical";
-import { applicationContentSchema } from "@/lib/validation/application";
+import { applicationContentSchema } from "@/lib/applications/schemas";
 import { createUser, requireDatabase } from "../support/db";
 import { http } from "../support/http";
 import {

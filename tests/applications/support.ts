@@ -4,7 +4,7 @@ import { expect } from "vitest";
 import { PNG } from "pngjs";
 import { assessSetup, requiredControls, type SetupInput } from "@/lib/hazard";
 import { setupFromText } from "@/lib/apparatus/setup-text";
-import { applicationDraftSchema, type ApplicationDraft } from "@/lib/validation/application";
+import { applicationDraftSchema, type ApplicationDraft } from "@/lib/applications/schemas";
 import { createRoleSet, createUser } from "../support/db";
 import { baseUrl, http, randomIp, signIn } from "../support/http";
 

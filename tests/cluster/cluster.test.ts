@@ -9,7 +9,7 @@ import { and, eq, sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { applications, auditEvents } from "@/db/schema";
-import { queueMail } from "@/lib/mail/outbox";
+import { queueMail } from "@/lib/outbox";
 import { startCluster, type Cluster, type ServerName } from "@/scripts/lib/cluster.mjs";
 import { pdfBytes } from "../applications/support";
 import { caughtTo, waitFor } from "../jobs/support";

@@ -3,7 +3,7 @@ import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { applications, permits } from "@/db/schema";
-import { applicationDraftSchema } from "@/lib/validation/application";
+import { applicationDraftSchema } from "@/lib/applications/schemas";
 import { createSubmittedApplication, createTeam } from "../review/support";
 import { createUser, requireDatabase, TEST_PASSWORD } from "../support/db";
 import { http, signIn } from "../support/http";

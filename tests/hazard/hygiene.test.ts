@@ -12,7 +12,7 @@ const engineFiles = readdirSync(engineDir)
   .map((name) => path.join(engineDir, name));
 const ownFiles = [
   ...engineFiles,
-  path.join(root, "lib/validation/setup.ts"),
+  path.join(root, "lib/apparatus/setup-schema.ts"),
   ...readdirSync(import.meta.dirname)
     .filter((name) => name.endsWith(".ts") && name !== path.basename(import.meta.filename))
     .map((name) => path.join(import.meta.dirname, name)),

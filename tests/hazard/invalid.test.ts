@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { assessSetup, HazardInputError, type SetupInput } from "@/lib/hazard";
-import { setupInputSchema, toSetupInput } from "@/lib/validation/setup";
+import { setupInputSchema, toSetupInput } from "@/lib/apparatus/setup-schema";
 import { cap, dc, inputError } from "./support";
 
 // Input the engine refuses: each case must throw HazardInputError naming the field, never return a

@@ -11,7 +11,7 @@ import { getDb } from "@/db";
 import { applicationRevisions, applications, decisions, institutionSettings, mailOutbox, permits } from "@/db/schema";
 import { assessSetup } from "@/lib/hazard";
 import { revisionHash } from "@/lib/signing/canonical";
-import { applicationContentSchema, type ApplicationContent } from "@/lib/validation/application";
+import { applicationContentSchema, type ApplicationContent } from "@/lib/applications/schemas";
 import { createDepartment, createUser, uniq } from "../support/db";
 
 // A year no real permit uses, so fixture numbers never collide with permits the app issues.

@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser } from "playwright-core";
 import { getDb } from "@/db";
 import { deliverDueMail } from "@/lib/mail/actions";
-import { queueMail } from "@/lib/mail/outbox";
+import { queueMail } from "@/lib/outbox";
 import { outboxIdsTo } from "../jobs/support";
 import { createUser, requireDatabase, TEST_PASSWORD, uniq } from "../support/db";
 import { baseUrl } from "../support/http";

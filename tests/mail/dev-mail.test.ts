@@ -3,7 +3,7 @@
 import { describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { deliverDueMail } from "@/lib/mail/actions";
-import { queueMail } from "@/lib/mail/outbox";
+import { queueMail } from "@/lib/outbox";
 import { createUser, requireDatabase, uniq } from "../support/db";
 import { baseUrl, http, signIn } from "../support/http";
 import { caughtTo, outboxIdsTo } from "../jobs/support";

@@ -3,8 +3,8 @@
 import { describe, expect, it } from "vitest";
 import { renderEmail, type EmailContext } from "@/emails";
 import { buildCalendar, escapeText, foldLine, permitEvents } from "@/lib/calendar/ics";
-import { headerText, isPlainAddress, outboxMessageId } from "@/lib/mail/headers";
-import { defaultSubject, type MailMessage } from "@/lib/mail/outbox";
+import { headerText, isPlainAddress, outboxMessageId } from "@/lib/outbox/headers";
+import { defaultSubject, type MailMessage } from "@/lib/outbox";
 import { TIER_GLYPHS } from "@/lib/tier-glyph";
 
 const ctx: EmailContext = {

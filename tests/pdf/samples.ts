@@ -5,7 +5,7 @@
 
 import { assessSetup, requiredControls, TIER_LABELS, type SetupInput, type Tier } from "@/lib/hazard";
 import type { PrintData } from "@/lib/pdf/types";
-import { applicationContentSchema, type ApplicationContent } from "@/lib/validation/application";
+import { applicationContentSchema, type ApplicationContent } from "@/lib/applications/schemas";
 
 export const SAMPLE_SETUPS: Record<Tier, { name: string; room: string; setup: SetupInput }> = {
   // 5 cm sphere at 100 kV: C = 4·π·ε0·r ≈ 5.56 pF, E = ½CV² ≈ 27.8 mJ (≤ 350 mJ above 15 kV): tier 0.

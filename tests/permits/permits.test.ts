@@ -2,15 +2,15 @@ import { and, eq, sql } from "drizzle-orm";
 import { afterEach, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { applications, auditEvents, decisions, institutionSettings, mailOutbox, permits } from "@/db/schema";
-import { AppError } from "@/lib/http/errors";
-import { renewPermit } from "@/lib/permits/actions";
+import { AppError } from "@/lib/errors";
+import { renewPermit } from "@/lib/applications/renew";
 import { addDays, daysFromTo, effectivePermitState, inclusiveDays, isIsoDay, todayIn } from "@/lib/permits/dates";
 import { formatPermitNumber, newVerificationCode } from "@/lib/permits/numbers";
 import { expiringPermits, getPermit, listPermits } from "@/lib/permits/queries";
 import { revokePermit } from "@/lib/permits/revoke";
 import { decide } from "@/lib/review/decide";
 import { DECISION_MEANINGS } from "@/lib/signing/meanings";
-import { applicationDraftSchema } from "@/lib/validation/application";
+import { applicationDraftSchema } from "@/lib/applications/schemas";
 import { createUser, requireDatabase, TEST_PASSWORD } from "../support/db";
 import { asActor, createSubmittedApplication, createTeam, isoDayFromNow } from "../review/support";
 

@@ -3,7 +3,7 @@ import { describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { applicationRevisions, applications, auditEvents, decisions, mailOutbox, permits } from "@/db/schema";
 import { assessSetup, type Tier } from "@/lib/hazard";
-import { AppError } from "@/lib/http/errors";
+import { AppError } from "@/lib/errors";
 import { inclusiveDays } from "@/lib/permits/dates";
 import { revokePermit } from "@/lib/permits/revoke";
 import { decide } from "@/lib/review/decide";

@@ -2,7 +2,7 @@ import { eq } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { applications } from "@/db/schema";
-import { AppError } from "@/lib/http/errors";
+import { AppError } from "@/lib/errors";
 import { decide } from "@/lib/review/decide";
 import { listQueue, QUEUE_PAGE_SIZE, queueCountsByTier } from "@/lib/review/queries";
 import { createUser, requireDatabase, TEST_PASSWORD } from "../support/db";

@@ -2,7 +2,7 @@ import { and, eq, sql } from "drizzle-orm";
 import { describe, expect, it, onTestFinished } from "vitest";
 import { getDb } from "@/db";
 import { auditEvents, decisions, permitCounters, permits, type Application } from "@/db/schema";
-import { AppError } from "@/lib/http/errors";
+import { AppError } from "@/lib/errors";
 import { nextPermitNumber } from "@/lib/permits/actions";
 import { decide } from "@/lib/review/decide";
 import { updateSettings } from "@/lib/settings/actions";

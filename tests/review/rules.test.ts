@@ -3,7 +3,7 @@ import { afterAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { auditEvents } from "@/db/schema";
 import { DEFAULT_RULES } from "@/lib/hazard";
-import { AppError } from "@/lib/http/errors";
+import { AppError } from "@/lib/errors";
 import { inclusiveDays } from "@/lib/permits/dates";
 import { decide } from "@/lib/review/decide";
 import { chainRulesSchema, DEFAULT_CHAIN_RULES, DEFAULT_REMINDER_RULES, type ChainRules } from "@/lib/rules/chain";

@@ -18,12 +18,12 @@ import {
 import { writeAudit } from "@/lib/audit";
 import type { CurrentUser } from "@/lib/auth/guards";
 import { assessSetup, requiredControls, type SetupInput, type Tier } from "@/lib/hazard";
-import { draftFromContent } from "@/lib/permits/renewal";
+import { draftFromContent } from "@/lib/applications/renewal";
 import { afterSubmit } from "@/lib/applications/chain-start";
 import { revisionHash } from "@/lib/signing/canonical";
 import { transition } from "@/lib/applications/state";
 import { currentChainRules } from "@/lib/rules/queries";
-import { applicationContentSchema, type ApplicationContent } from "@/lib/validation/application";
+import { applicationContentSchema, type ApplicationContent } from "@/lib/applications/schemas";
 import { createDepartment, createUser, uniq } from "../support/db";
 
 /**

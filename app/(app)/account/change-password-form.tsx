@@ -8,7 +8,7 @@ import { Alert } from "@/app/_components/alert";
 import { Button } from "@/app/_components/button";
 import { Field } from "@/app/_components/field";
 import { ApiError, apiFetch } from "@/lib/client/api";
-import { newPasswordSchema } from "@/lib/validation/auth";
+import { newPasswordSchema } from "@/lib/auth/schemas";
 
 const formSchema = z
   .object({

@@ -11,7 +11,7 @@ import { TierBadge } from "@/app/_components/tier-badge";
 import { listApparatus, type ApparatusListRow } from "@/lib/apparatus/queries";
 import { can, requirePageUser } from "@/lib/auth/guards";
 import { formatQuantity, TIER_LABELS } from "@/lib/hazard";
-import { apparatusListQuerySchema } from "@/lib/validation/apparatus";
+import { apparatusListQuerySchema } from "@/lib/apparatus/schemas";
 import { Pager, SortLink } from "@/app/_components/list-controls";
 
 export const metadata: Metadata = { title: "Apparatus" };

@@ -12,7 +12,7 @@ import { TierBadge } from "@/app/_components/tier-badge";
 import { isEditable } from "@/lib/applications/access";
 import { listMyApplications, type MyApplicationRow } from "@/lib/applications/queries";
 import { can, requirePageUser } from "@/lib/auth/guards";
-import { applicationListQuerySchema } from "@/lib/validation/application";
+import { applicationListQuerySchema } from "@/lib/applications/schemas";
 import { Pager, SortLink } from "@/app/_components/list-controls";
 import { DuplicateButton } from "./new/_form/duplicate-button";
 

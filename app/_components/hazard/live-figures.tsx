@@ -3,7 +3,7 @@
 import { useFormContext, useWatch, type FieldValues } from "react-hook-form";
 import { formFieldName, gapLabel, gapLimit, namedIssues } from "@/lib/apparatus/live";
 import { formatQuantity, type TierRules } from "@/lib/hazard";
-import type { SetupText } from "@/lib/validation/apparatus";
+import type { SetupText } from "@/lib/apparatus/schemas";
 import { cx } from "../cx";
 import { TIER_CLASSES, tierText, type Tier } from "../tier";
 import { TierBadge } from "../tier-badge";

@@ -13,7 +13,7 @@ import {
   sourceTextId,
   upgradeSetupText,
 } from "@/lib/apparatus/setup-text";
-import { SOURCE_KIND_LABELS, SOURCE_KINDS, type SetupText, type SourceKindName } from "@/lib/validation/apparatus";
+import { SOURCE_KIND_LABELS, SOURCE_KINDS, type SetupText, type SourceKindName } from "@/lib/apparatus/schemas";
 import { Button } from "../button";
 import { cx } from "../cx";
 import { controlClasses, Field, FieldShell } from "../field";

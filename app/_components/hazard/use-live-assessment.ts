@@ -3,7 +3,7 @@
 import { useMemo } from "react";
 import { setupFromText, type PathIssue } from "@/lib/apparatus/setup-text";
 import { assessSetup, type Assessment, type SetupInput, type TierRules } from "@/lib/hazard";
-import { setupTextSchema, type SetupText } from "@/lib/validation/apparatus";
+import { setupTextSchema, type SetupText } from "@/lib/apparatus/schemas";
 
 export type LiveAssessment = {
   setup: SetupInput | null;

@@ -4,7 +4,7 @@
 import { createApparatus } from "@/lib/apparatus/actions";
 import { listApparatus } from "@/lib/apparatus/queries";
 import { route } from "@/lib/http/route";
-import { apparatusCreateSchema, apparatusListQuerySchema } from "@/lib/validation/apparatus";
+import { apparatusCreateSchema, apparatusListQuerySchema } from "@/lib/apparatus/schemas";
 
 export const GET = route({ access: "apparatus.read", query: apparatusListQuerySchema }, async ({ user, query }) =>
   listApparatus(user, query),

@@ -3,7 +3,7 @@
 import { createDraft } from "@/lib/applications/actions";
 import { listMyApplications } from "@/lib/applications/queries";
 import { route } from "@/lib/http/route";
-import { applicationListQuerySchema, draftCreateSchema } from "@/lib/validation/application";
+import { applicationListQuerySchema, draftCreateSchema } from "@/lib/applications/schemas";
 
 export const GET = route({ access: "user", query: applicationListQuerySchema }, async ({ user, query }) =>
   listMyApplications(user, query),

@@ -5,10 +5,10 @@ import { AuthError } from "next-auth";
 import { signIn, signOut, ThrottledSignin } from "@/auth";
 import { KNOWN_DEVICE_COOKIE, KNOWN_DEVICE_MAX_AGE_SECONDS, knownDeviceCookieValue } from "@/lib/auth/known-device";
 import { env } from "@/lib/env";
-import { AppError } from "@/lib/http/errors";
+import { AppError } from "@/lib/errors";
 import { route } from "@/lib/http/route";
 import { signOutUser } from "@/lib/users/actions";
-import { signInSchema } from "@/lib/validation/auth";
+import { signInSchema } from "@/lib/auth/schemas";
 
 const WRONG = "That e-mail and password do not match an active account.";
 

@@ -15,8 +15,8 @@ import { GAP_FIELDS, SOURCE_FIELDS } from "@/lib/apparatus/setup-text";
 import { can, requirePageUser } from "@/lib/auth/guards";
 import { assessSetup, BASE_UNIT, formatQuantity, upgradeSetup, type EnergySource } from "@/lib/hazard";
 import { currentTierRules } from "@/lib/hazard-rules";
-import { AppError } from "@/lib/http/errors";
-import { SOURCE_KIND_LABELS } from "@/lib/validation/apparatus";
+import { AppError } from "@/lib/errors";
+import { SOURCE_KIND_LABELS } from "@/lib/apparatus/schemas";
 
 export const metadata: Metadata = { title: "Apparatus" };
 

@@ -18,7 +18,7 @@ import { institutionToday } from "@/lib/permits/queries";
 import { getApplicationRecord } from "@/lib/review/queries";
 import { repliesFor } from "@/lib/review/replies";
 import { describeChain, STEP_ROLE_LABELS, tierChain } from "@/lib/rules/chain";
-import type { ApplicationContent } from "@/lib/validation/application";
+import type { ApplicationContent } from "@/lib/applications/schemas";
 import { SignatureList } from "@/app/_components/signature-list";
 import { formatUtc } from "@/app/_components/utc";
 import { ContentSummary } from "./_components/content-summary";

@@ -17,7 +17,7 @@ import { daysFromTo, inclusiveDays } from "@/lib/permits/dates";
 import { getPermit } from "@/lib/permits/queries";
 import { figureRows, formatPerson } from "@/lib/review/present";
 import { printAudience, printDays } from "@/lib/pdf/content";
-import { AUDIENCE_LABELS, EVENT_KIND_LABELS, type ApplicationContent } from "@/lib/validation/application";
+import { AUDIENCE_LABELS, EVENT_KIND_LABELS, type ApplicationContent } from "@/lib/applications/schemas";
 import { SignatureList } from "@/app/_components/signature-list";
 import { formatUtc } from "@/app/_components/utc";
 import { RenewButton, RevokeForm } from "./_components/permit-actions";

@@ -3,7 +3,7 @@
 import { route } from "@/lib/http/route";
 import { inviteUser } from "@/lib/users/actions";
 import { listPendingInvitations } from "@/lib/users/queries";
-import { inviteSchema } from "@/lib/validation/auth";
+import { inviteSchema } from "@/lib/auth/schemas";
 
 export const POST = route({ access: "admin.users", body: inviteSchema }, async ({ user, body }) => {
   const { invitation } = await inviteUser(user, body);

@@ -5,7 +5,7 @@ import { updateApparatus } from "@/lib/apparatus/actions";
 import { getApparatus } from "@/lib/apparatus/queries";
 import { idParam } from "@/lib/applications/params";
 import { route } from "@/lib/http/route";
-import { apparatusUpdateSchema } from "@/lib/validation/apparatus";
+import { apparatusUpdateSchema } from "@/lib/apparatus/schemas";
 
 export const GET = route({ access: "apparatus.read" }, async ({ user, params }) => ({
   apparatus: await getApparatus(user, idParam(params.id, "That apparatus")),

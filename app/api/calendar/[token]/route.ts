@@ -3,7 +3,7 @@
 // an unknown or removed token, or a disabled account's, answers 404. "/api/calendar/<token>.ics"
 // works too, for apps that want the extension.
 import { calendarFeed } from "@/lib/calendar/queries";
-import { notFound } from "@/lib/http/errors";
+import { notFound } from "@/lib/errors";
 import { route } from "@/lib/http/route";
 
 export const GET = route({ access: "public" }, async ({ params }) => {

@@ -3,7 +3,7 @@
 // that sends real mail).
 import { inboxEnabled, listCaught } from "@/lib/mail/local-inbox";
 import { listOutbox, outboxCounts } from "@/lib/mail/queries";
-import { notFound } from "@/lib/http/errors";
+import { notFound } from "@/lib/errors";
 import { route } from "@/lib/http/route";
 
 export const GET = route({ access: "dev.mail" }, async () => {

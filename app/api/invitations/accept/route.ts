@@ -3,7 +3,7 @@
 import { signIn } from "@/auth";
 import { route } from "@/lib/http/route";
 import { acceptInvitation } from "@/lib/users/actions";
-import { acceptInviteSchema } from "@/lib/validation/auth";
+import { acceptInviteSchema } from "@/lib/auth/schemas";
 
 export const POST = route({ access: "public", body: acceptInviteSchema }, async ({ body }) => {
   const user = await acceptInvitation(body.token, body.password);

@@ -3,7 +3,7 @@
 import { signIn } from "@/auth";
 import { route } from "@/lib/http/route";
 import { changePassword } from "@/lib/users/actions";
-import { changePasswordSchema } from "@/lib/validation/auth";
+import { changePasswordSchema } from "@/lib/auth/schemas";
 
 export const POST = route({ access: "user", body: changePasswordSchema }, async ({ user, body }) => {
   await changePassword(user, body.currentPassword, body.newPassword);

@@ -1,6 +1,6 @@
 // GET /api/permits/[id] — one permit with its effective state and signatures, if this user may see it.
 import { z } from "zod";
-import { fromZodError, notFound } from "@/lib/http/errors";
+import { fromZodError, notFound } from "@/lib/errors";
 import { route } from "@/lib/http/route";
 import { getPermit } from "@/lib/permits/queries";
 

@@ -6,7 +6,7 @@ import { getApparatus } from "@/lib/apparatus/queries";
 import { setupToText } from "@/lib/apparatus/setup-text";
 import { requirePageUser } from "@/lib/auth/guards";
 import { currentTierRules } from "@/lib/hazard-rules";
-import { AppError } from "@/lib/http/errors";
+import { AppError } from "@/lib/errors";
 import { ApparatusForm } from "../../_components/apparatus-form";
 
 export const metadata: Metadata = { title: "Edit apparatus" };

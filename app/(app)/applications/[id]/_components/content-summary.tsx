@@ -9,7 +9,7 @@ import {
   formatFieldValue,
   formatPerson,
 } from "@/lib/review/present";
-import type { ApplicationContent } from "@/lib/validation/application";
+import type { ApplicationContent } from "@/lib/applications/schemas";
 
 // The frozen content of one revision, read-only: event, apparatus and energy sources, the figures and
 // their reasons with sources, the controls and the attachments.

@@ -7,7 +7,7 @@ import { pinLabel, pinStep } from "@/lib/applications/pins";
 import { getDraftForEdit } from "@/lib/applications/queries";
 import { requirePageUser } from "@/lib/auth/guards";
 import { currentTierRules } from "@/lib/hazard-rules";
-import { AppError } from "@/lib/http/errors";
+import { AppError } from "@/lib/errors";
 import { returnCommentsFor } from "@/lib/review/queries";
 import { repliesFor } from "@/lib/review/replies";
 import { ApplicationForm } from "../../new/_form/application-form";

@@ -12,7 +12,7 @@ import type { LiveAssessment } from "@/app/_components/hazard/use-live-assessmen
 import { setupToText } from "@/lib/apparatus/setup-text";
 import { apiFetch } from "@/lib/client/api";
 import { TIER_LABELS, type SetupInput, type Tier, type TierRules } from "@/lib/hazard";
-import type { ApplicationDraft } from "@/lib/validation/application";
+import type { ApplicationDraft } from "@/lib/applications/schemas";
 import { messageAt } from "./errors";
 
 export type ApparatusChoice = { id: string; name: string; room: string; tier: number; currentRevision: number };

@@ -21,7 +21,7 @@ import {
   type ApplicationDraft,
   type AttachmentRef,
   type FormStep,
-} from "@/lib/validation/application";
+} from "@/lib/applications/schemas";
 import { ApparatusStep, type ApparatusChoice } from "./apparatus-step";
 import { AttachmentsStep } from "./attachments-step";
 import { ControlsStep } from "./controls-step";

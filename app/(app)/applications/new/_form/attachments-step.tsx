@@ -13,7 +13,7 @@ import {
   isImageType,
 } from "@/lib/applications/limits";
 import { ApiError, apiFetch, type FieldIssue } from "@/lib/client/api";
-import type { AttachmentRef } from "@/lib/validation/application";
+import type { AttachmentRef } from "@/lib/applications/schemas";
 
 // Photos and schematics. Each file goes up on its own XMLHttpRequest (for its progress bar); the
 // server reads the type from the content and has the last word. A refused or failed upload is

@@ -4,7 +4,7 @@ import { useFormContext, useFormState, useWatch } from "react-hook-form";
 import { controlClasses, FieldShell } from "@/app/_components/field";
 import type { Assessment, ControlRule, Tier } from "@/lib/hazard";
 import { TIER_LABELS } from "@/lib/hazard";
-import type { ApplicationDraft } from "@/lib/validation/application";
+import type { ApplicationDraft } from "@/lib/applications/schemas";
 import { controlText } from "./control-text";
 import { messageAt } from "./errors";
 

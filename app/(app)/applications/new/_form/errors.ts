@@ -1,5 +1,5 @@
 import { get, type FieldErrors } from "react-hook-form";
-import type { ApplicationDraft } from "@/lib/validation/application";
+import type { ApplicationDraft } from "@/lib/applications/schemas";
 
 /** The message of a field's error, by its dotted form name. */
 export function messageAt(errors: FieldErrors<ApplicationDraft>, name: string): string | undefined {

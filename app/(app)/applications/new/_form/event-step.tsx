@@ -9,7 +9,7 @@ import {
   EVENT_KIND_LABELS,
   EVENT_KINDS,
   type ApplicationDraft,
-} from "@/lib/validation/application";
+} from "@/lib/applications/schemas";
 import { messageAt } from "./errors";
 import { PersonField } from "./person-field";
 

@@ -6,7 +6,7 @@ import { get, useFormContext, useFormState, useWatch } from "react-hook-form";
 import { Button } from "@/app/_components/button";
 import { controlClasses, FieldShell } from "@/app/_components/field";
 import { apiFetch } from "@/lib/client/api";
-import type { ApplicationDraft } from "@/lib/validation/application";
+import type { ApplicationDraft } from "@/lib/applications/schemas";
 
 // A person named on the application: a name, optionally linked to an Benchclear account (found by
 // name) so that the review chain knows they may not decide on it. Typing over a linked name unlinks it.

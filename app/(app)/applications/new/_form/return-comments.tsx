@@ -5,7 +5,7 @@ import { Alert } from "@/app/_components/alert";
 import { Button } from "@/app/_components/button";
 import { controlClasses, FieldShell } from "@/app/_components/field";
 import { ApiError, apiFetch } from "@/lib/client/api";
-import type { FormStep } from "@/lib/validation/application";
+import type { FormStep } from "@/lib/applications/schemas";
 
 // The reviewers' return comments on the form of a returned application: each says which step or
 // field it is about, as a link to that step, and the applicant can answer it. Once the application

@@ -16,7 +16,7 @@ import {
   type ApplicationDraft,
   type AttachmentRef,
   type FormStep,
-} from "@/lib/validation/application";
+} from "@/lib/applications/schemas";
 import { controlText } from "./control-text";
 import { messageAt } from "./errors";
 

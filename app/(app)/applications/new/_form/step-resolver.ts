@@ -10,7 +10,7 @@ import {
   eventStepSchema,
   type ApplicationDraft,
   type FormStep,
-} from "@/lib/validation/application";
+} from "@/lib/applications/schemas";
 
 // The form's resolver validates only the step on screen, with the same step schemas the server runs
 // on submission. It keeps the values as typed (raw), so moving on never rewrites what was written.

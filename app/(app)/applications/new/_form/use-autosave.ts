@@ -4,7 +4,7 @@ import { useMutation } from "@tanstack/react-query";
 import { useEffect, useState } from "react";
 import type { UseFormReturn } from "react-hook-form";
 import { ApiError, apiFetch } from "@/lib/client/api";
-import type { ApplicationDraft } from "@/lib/validation/application";
+import type { ApplicationDraft } from "@/lib/applications/schemas";
 
 // Debounced autosave of the whole draft to PostgreSQL through the API. One save at a time, each
 // carrying the version it edits (409 when the draft was saved elsewhere). A failed save keeps the

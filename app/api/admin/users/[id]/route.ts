@@ -1,10 +1,10 @@
 // PATCH /api/admin/users/[id] — set roles or department, disable or re-enable a user. Ends that
 // user's sessions on their next request.
 import { z } from "zod";
-import { fromZodError } from "@/lib/http/errors";
+import { fromZodError } from "@/lib/errors";
 import { route } from "@/lib/http/route";
 import { updateUser } from "@/lib/users/actions";
-import { updateUserSchema } from "@/lib/validation/auth";
+import { updateUserSchema } from "@/lib/auth/schemas";
 
 const idSchema = z.uuid({ error: "must be a user id" });
 

@@ -5,7 +5,7 @@ import { z } from "zod";
 import { addAttachment, assertCanAttach } from "@/lib/applications/attachments";
 import { ATTACHMENT_MAX_BYTES, ATTACHMENT_REQUEST_MAX_BYTES, formatBytes } from "@/lib/applications/limits";
 import { idParam } from "@/lib/applications/params";
-import { AppError, fromZodError } from "@/lib/http/errors";
+import { AppError, fromZodError } from "@/lib/errors";
 import { route } from "@/lib/http/route";
 
 const uploadSchema = z.object({

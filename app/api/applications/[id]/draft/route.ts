@@ -5,7 +5,7 @@ import { saveDraft } from "@/lib/applications/actions";
 import { idParam } from "@/lib/applications/params";
 import { getDraftForEdit } from "@/lib/applications/queries";
 import { route } from "@/lib/http/route";
-import { draftSaveSchema } from "@/lib/validation/application";
+import { draftSaveSchema } from "@/lib/applications/schemas";
 
 export const GET = route({ access: "user" }, async ({ user, params }) => ({
   application: await getDraftForEdit(user, idParam(params.id, "That application")),

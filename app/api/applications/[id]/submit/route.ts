@@ -4,7 +4,7 @@
 import { submitApplication } from "@/lib/applications/actions";
 import { idParam } from "@/lib/applications/params";
 import { route } from "@/lib/http/route";
-import { versionedActionSchema } from "@/lib/validation/application";
+import { versionedActionSchema } from "@/lib/applications/schemas";
 
 export const POST = route(
   { access: "application.submit", body: versionedActionSchema },

@@ -3,7 +3,7 @@
 import { withdrawApplication } from "@/lib/applications/actions";
 import { idParam } from "@/lib/applications/params";
 import { route } from "@/lib/http/route";
-import { versionedActionSchema } from "@/lib/validation/application";
+import { versionedActionSchema } from "@/lib/applications/schemas";
 
 export const POST = route(
   { access: "application.withdraw", body: versionedActionSchema },

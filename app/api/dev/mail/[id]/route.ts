@@ -1,7 +1,7 @@
 // GET /api/dev/mail/[id] — admins: one caught message with its headers, HTML and text parts and its
 // attachments' names and sizes. 404 unless MAIL_TRANSPORT=local-inbox, or when there is no such message.
 import { inboxEnabled, getCaught } from "@/lib/mail/local-inbox";
-import { notFound } from "@/lib/http/errors";
+import { notFound } from "@/lib/errors";
 import { route } from "@/lib/http/route";
 
 export const GET = route({ access: "dev.mail" }, async ({ params }) => {

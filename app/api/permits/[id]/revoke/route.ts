@@ -2,7 +2,7 @@
 // password; the holder and the people named on it are told by e-mail.
 import { z } from "zod";
 import { clientIp } from "@/lib/http/client-ip";
-import { fromZodError } from "@/lib/http/errors";
+import { fromZodError } from "@/lib/errors";
 import { route } from "@/lib/http/route";
 import { revokePermit } from "@/lib/permits/revoke";
 import { revokeBodySchema } from "@/lib/permits/schemas";

@@ -3,7 +3,7 @@
 // reject (password, comment). 403 for the wrong person, 409 when it is no longer waiting for it.
 import { z } from "zod";
 import { clientIp } from "@/lib/http/client-ip";
-import { fromZodError } from "@/lib/http/errors";
+import { fromZodError } from "@/lib/errors";
 import { route } from "@/lib/http/route";
 import { decide } from "@/lib/review/decide";
 import { decisionBodySchema } from "@/lib/review/schemas";

@@ -2,7 +2,7 @@ import "server-only";
 import type { DbOrTx } from "@/lib/audit";
 import { env } from "@/lib/env";
 import { invitationToken, invitationUrl } from "@/lib/users/invitation-token";
-import { queueMail } from "./outbox";
+import { queueMail } from "./index";
 
 // Queues the invitation e-mail in the outbox, in the caller's transaction. The row keeps the
 // invitation's id, never the link: the link's token is rebuilt from the id with a key from the

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { MAX_GAPS, MAX_SOURCES, setupInputSchema } from "./setup";
+import { MAX_GAPS, MAX_SOURCES, setupInputSchema } from "./setup-schema";
 
 // The apparatus registry's input, shared by its forms and its route handlers, and the text form of a
 // set-up: what a person types into the source and gap fields ("4.7 nF", "30 kV"), kept exactly as

@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { setupFromText } from "@/lib/apparatus/setup-text";
-import { setupTextSchema } from "./apparatus";
-import { setupInputSchema } from "./setup";
+import { setupTextSchema } from "@/lib/apparatus/schemas";
+import { setupInputSchema } from "@/lib/apparatus/setup-schema";
 
 // The application's content: what the form edits as a draft and what a submission freezes into an
 // application revision (the thing decisions sign). The permit PDF, the review diff and the e-mails

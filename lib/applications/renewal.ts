@@ -1,5 +1,5 @@
 // From a frozen revision's content back to the form's working copy (applicationDraftSchema in
-// lib/validation/application.ts). A renewal starts from the permit's revision this way, with the event
+// lib/applications/schemas.ts). A renewal starts from the permit's revision this way, with the event
 // dates cleared, every control to be confirmed again and the attestation to be given again;
 // attachments stay with the earlier application and the holder uploads current ones. Pure.
 
@@ -9,7 +9,7 @@ import {
   applicationDraftSchema,
   type ApplicationContent,
   type ApplicationDraft,
-} from "@/lib/validation/application";
+} from "@/lib/applications/schemas";
 
 type Options = { clearDates: boolean; clearConfirmations: boolean };
 
