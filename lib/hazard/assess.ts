@@ -17,8 +17,10 @@ import { checkSetupInput, sourceId } from "./validate";
  * 2.0.0: gaps cap only the sources they are across, at the breakdown's upper bound; every published
  * sphere-gap row, monotone interpolation; approach distances null beyond the tables; τ and ∫i²dt from
  * capacitive sources; bleeders across sources; AC arc-flash, DC thermal, 5 s discharge, ∫i²dt criteria.
+ * 2.0.1: a set-up with DC and AC parts where one voltage lies beyond its approach table gets no
+ * distance (null), not the other table's smaller one.
  */
-export const ENGINE_VERSION = "2.0.0";
+export const ENGINE_VERSION = "2.0.1";
 
 function approachReason(lookup: ApproachLookup, system: "dc" | "ac", voltage_V: number, tier: Tier): Reason | null {
   if (lookup.rowUpTo_V === null) return null;
@@ -168,10 +170,14 @@ export function assessSetup(input: SetupInput, givenRules: TierRules = DEFAULT_R
     specificEnergy_A2s,
     continuousCurrent_A: maxOf(items, (item) => item.continuousCurrent_A),
     timeToSafe_s,
-    approach: {
-      limited_m: maxOrNull(dcLookup?.limited_m ?? null, acLookup?.limited_m ?? null),
-      restricted_m: maxOrNull(dcLookup?.restricted_m ?? null, acLookup?.restricted_m ?? null),
-    },
+    // Beyond either table no published distance applies to the set-up, whatever the other table says.
+    approach:
+      dcLookup?.beyondTable || acLookup?.beyondTable
+        ? { limited_m: null, restricted_m: null }
+        : {
+            limited_m: maxOrNull(dcLookup?.limited_m ?? null, acLookup?.limited_m ?? null),
+            restricted_m: maxOrNull(dcLookup?.restricted_m ?? null, acLookup?.restricted_m ?? null),
+          },
     reasons,
     flags: flagsFor(input, items, { energy_J, maxVoltage_V }, rules),
     perSource,

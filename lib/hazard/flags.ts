@@ -74,7 +74,7 @@ export function flagsFor(
       .join(" and ");
     flags.push({
       code: "ozone",
-      message: `${why[0].toUpperCase()}${why.slice(1)} make ozone: ventilate the room, especially for long runs.`,
+      message: `${why[0].toUpperCase()}${why.slice(1)} ${gapCount === 1 && !highVoltage ? "makes" : gapCount === 0 ? "makes" : "make"} ozone: ventilate the room, especially for long runs.`,
       source: f.ozoneVoltage.source,
       ref: f.ozoneVoltage.ref,
     });

@@ -1,6 +1,6 @@
 import { Document, Page, Text, View } from "@react-pdf/renderer";
 import { formatQuantity } from "@/lib/hazard";
-import { dischargeSteps, printAudience, printDay, printDays } from "./content";
+import { approachBeyondTable, dischargeSteps, printAudience, printDay, printDays } from "./content";
 import {
   AboutFiguresBox,
   EmergencyContacts,
@@ -43,6 +43,13 @@ export function BenchCardDocument({
   const tierColours = TIER_COLOURS[permit.tier];
   const steps = dischargeSteps(setup, assessment).slice(0, MAX_STEPS);
   const { limited_m, restricted_m } = assessment.approach;
+  // Above the last row of the approach tables there is no published distance: say who sets it.
+  const distance = (value: number | null) =>
+    value !== null
+      ? formatQuantity(value, "m")
+      : approachBeyondTable(assessment)
+        ? "set by a qualified person"
+        : "none";
 
   return (
     <Document
@@ -126,15 +133,11 @@ export function BenchCardDocument({
             <Text style={[s.h2, { fontSize: 13 }]}>Keep back</Text>
             <View style={{ marginBottom: 5 }}>
               <Text style={{ fontSize: 10, color: INK.muted }}>Audience: limited approach</Text>
-              <Text style={[s.mono, { fontSize: 20 * scale, color: INK.text }]}>
-                {limited_m === null ? "none" : formatQuantity(limited_m, "m")}
-              </Text>
+              <Text style={[s.mono, { fontSize: 20 * scale, color: INK.text }]}>{distance(limited_m)}</Text>
             </View>
             <View style={{ marginBottom: 5 }}>
               <Text style={{ fontSize: 10, color: INK.muted }}>Trained people only: restricted approach</Text>
-              <Text style={[s.mono, { fontSize: 20 * scale, color: INK.text }]}>
-                {restricted_m === null ? "none" : formatQuantity(restricted_m, "m")}
-              </Text>
+              <Text style={[s.mono, { fontSize: 20 * scale, color: INK.text }]}>{distance(restricted_m)}</Text>
             </View>
             <View>
               <Text style={{ fontSize: 10, color: INK.muted }}>Maximum voltage · stored energy</Text>

@@ -1,5 +1,8 @@
 import {
   formatQuantity,
+  readableSource,
+  referenceById,
+  statusText,
   type Assessment,
   type EnergySource,
   type SetupInput,
@@ -57,6 +60,11 @@ export function tierFigures(assessment: Assessment, setup: SetupInput): Figure[]
       : a.timeToSafe_s === 0
         ? { value: formatQuantity(0, "s"), note: `every source is at or below ${SAFE_VOLTAGE_V} V` }
         : { value: formatQuantity(a.timeToSafe_s, "s"), note: `bleeder time to ${SAFE_VOLTAGE_V} V, longest source` };
+  const beyond = approachBeyondTable(a);
+  const tables = approachSources(a);
+  const withTables = (note: string) => (tables ? `${note}; ${tables}` : note);
+  const distance = (value: number | null) =>
+    value !== null ? formatQuantity(value, "m") : beyond ? "set by a qualified person" : "none";
   return [
     { label: "Stored energy", value: formatQuantity(a.energy_J, "J"), note: "½·C·V², all sources" },
     {
@@ -78,13 +86,13 @@ export function tierFigures(assessment: Assessment, setup: SetupInput): Figure[]
     { label: "Time to safe voltage", value: timeToSafe.value, note: timeToSafe.note },
     {
       label: "Limited approach",
-      value: a.approach.limited_m === null ? "none" : formatQuantity(a.approach.limited_m, "m"),
-      note: "keep the audience outside",
+      value: distance(a.approach.limited_m),
+      note: withTables(beyond ? "beyond the published table: a qualified person sets it" : "audience outside"),
     },
     {
       label: "Restricted approach",
-      value: a.approach.restricted_m === null ? "none" : formatQuantity(a.approach.restricted_m, "m"),
-      note: "trained people only, insulated",
+      value: distance(a.approach.restricted_m),
+      note: beyond ? "beyond the published table" : "trained people only, insulated",
     },
     {
       label: "Stored charge",
@@ -94,11 +102,61 @@ export function tierFigures(assessment: Assessment, setup: SetupInput): Figure[]
   ];
 }
 
-/** The reasons that put the set-up in its tier (criteria that hold at the assessed tier). */
-export function decidingReasons(assessment: Assessment): string[] {
+/** A line of the permit that states a finding, with the publication and clause it rests on. */
+export type PrintedFinding = { text: string; source: string };
+
+/**
+ * The publication, edition and clause behind a reason or flag, as a reader can look it up, in the
+ * permit's short form: "IEC 60204-1 (2016), 6.2.4 (protection against residual voltages) — read in
+ * the text". The finding's own words already state the threshold. An assessment stored by engine 1
+ * has no reference id and named an internal working file in its source text; that pointer is dropped.
+ */
+export function printedSource(item: { source: string; ref?: string }, brief = false): string {
+  const ref = item.ref ? referenceById(item.ref) : undefined;
+  if (!ref) return readableSource(item.source);
+  const title = ref.title.split(/, | – /)[0];
+  const edition = ref.edition ? ` (${ref.edition})` : "";
+  // Brief (a figure's note): the clause's number without its description.
+  const clauseText = brief ? ref.clause.split(/,| \(/)[0] : ref.clause;
+  const clause = clauseText && clauseText !== "—" ? `, ${clauseText}` : "";
+  return `${title}${edition}${clause} — ${statusText(ref.status)}`;
+}
+
+const isApproach = (r: Assessment["reasons"][number]) => r.criterion.startsWith("approach");
+
+/** The reasons that put the set-up in its tier (criteria that hold at the assessed tier), with sources. */
+export function decidingReasons(assessment: Assessment): PrintedFinding[] {
   return assessment.reasons
-    .filter((r) => r.tier === assessment.tier && !r.criterion.startsWith("approach") && r.criterion !== "gap-ceiling")
-    .map((r) => r.meaning);
+    .filter((r) => r.tier === assessment.tier && !isApproach(r) && r.criterion !== "gap-ceiling")
+    .map((r) => ({ text: r.meaning, source: printedSource(r, true) }));
+}
+
+/** How the voltage ceiling was reached: each gap's reason, with its source. (The approach table's
+ * source is printed in the approach figures' notes.) */
+export function figureReasons(assessment: Assessment): PrintedFinding[] {
+  return assessment.reasons
+    .filter((r) => r.criterion === "gap-ceiling")
+    .map((r) => ({ text: r.meaning, source: printedSource(r) }));
+}
+
+/** The approach tables used, briefly: "NFPA 70E (2018), Table 130.4(E)(b) — from memory". */
+function approachSources(assessment: Assessment): string {
+  const seen = new Set<string>();
+  for (const r of assessment.reasons) if (isApproach(r)) seen.add(printedSource(r, true));
+  return [...seen].join("; ");
+}
+
+/** The flags beside the tier, each with its source. */
+export function printedFlags(assessment: Assessment): PrintedFinding[] {
+  return assessment.flags.map((f) => ({ text: f.message, source: printedSource(f, true) }));
+}
+
+/**
+ * True when a voltage lies above the last row of an approach table: the engine gives no distance
+ * (null) and a qualified person sets it. Printing "none" there would read as "no boundary needed".
+ */
+export function approachBeyondTable(assessment: Assessment): boolean {
+  return assessment.reasons.some((r) => isApproach(r) && r.value > r.threshold);
 }
 
 const KIND_LABELS: Record<EnergySource["kind"], string> = {

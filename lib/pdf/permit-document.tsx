@@ -3,13 +3,16 @@ import { Document, Page, Text, View } from "@react-pdf/renderer";
 import {
   dischargeSteps,
   decidingReasons,
+  figureReasons,
   gapLines,
   printAudience,
   printDay,
   printDays,
   printUtc,
+  printedFlags,
   sourceLines,
   tierFigures,
+  type PrintedFinding,
   type SourceLine,
 } from "./content";
 import {
@@ -52,6 +55,18 @@ function Fact({ label, value, flex = 1 }: { label: string; value: string; flex?:
   );
 }
 
+/** A finding in small type with the publication and clause it rests on underneath. */
+function Finding({ finding, fontSize = 8.5 }: { finding: PrintedFinding; fontSize?: number }) {
+  return (
+    <Text style={{ fontSize, color: INK.body, marginBottom: 2.5 }}>
+      • {keepUnits(finding.text)}
+      {finding.source ? (
+        <Text style={{ fontSize: fontSize - 1, color: INK.muted }}> Source: {finding.source}.</Text>
+      ) : null}
+    </Text>
+  );
+}
+
 /** A titled block. `lead` is kept on the same page as the title, so no heading is left alone at a page's foot. */
 function Section({
   title,
@@ -83,6 +98,10 @@ export function PermitDocument({ data, size, qr }: { data: PrintData; size: Pape
   const gaps = gapLines(setup.gaps);
   const operators = data.event.operators.map((o) => (o.trained ? `${o.name} (trained)` : o.name));
   const stateLook = STATE_LOOK[permit.state];
+  const reasons = decidingReasons(assessment);
+  const gapReasons = figureReasons(assessment);
+  const otherReasons = [...reasons.slice(1), ...gapReasons];
+  const flags = printedFlags(assessment);
   const conditionsBox =
     permit.conditions.length > 0 ? (
       <View
@@ -213,7 +232,11 @@ export function PermitDocument({ data, size, qr }: { data: PrintData; size: Pape
         />
 
         <View style={{ marginTop: 10 }}>
-          <TierBlock tier={permit.tier} label={permit.tierLabel} detail={decidingReasons(assessment).slice(0, 1)} />
+          <TierBlock
+            tier={permit.tier}
+            label={permit.tierLabel}
+            detail={reasons.slice(0, 1).map((r) => (r.source ? `${r.text} Source: ${r.source}.` : r.text))}
+          />
         </View>
 
         <View style={{ flexDirection: "row", marginTop: 10, paddingBottom: 8, ...s.rule }}>
@@ -262,12 +285,10 @@ export function PermitDocument({ data, size, qr }: { data: PrintData; size: Pape
             <Section title="Emergency">
               <EmergencyContacts contacts={data.institution.emergencyContacts} />
             </Section>
-            {assessment.flags.length > 0 && (
+            {flags.length > 0 && (
               <Section title="Also watch for">
-                {assessment.flags.map((f) => (
-                  <Text key={f.code} style={{ fontSize: 8.5, color: INK.body, marginBottom: 2 }}>
-                    • {keepUnits(f.message)}
-                  </Text>
+                {flags.map((f, i) => (
+                  <Finding key={`${i}-${f.text}`} finding={f} fontSize={8} />
                 ))}
               </Section>
             )}
@@ -305,6 +326,23 @@ export function PermitDocument({ data, size, qr }: { data: PrintData; size: Pape
             <Text style={{ fontSize: 9, color: INK.body, marginTop: 3 }}>{data.apparatus.notes}</Text>
           ) : null}
         </Section>
+
+        {otherReasons.length > 0 && (
+          <Section
+            title={
+              reasons.length > 1 && gapReasons.length > 0
+                ? `Further reasons for tier ${permit.tier}, and the spark gaps, with their sources`
+                : reasons.length > 1
+                  ? `Further reasons for tier ${permit.tier}, with their sources`
+                  : "The spark gaps, with their sources"
+            }
+            lead={<Finding finding={otherReasons[0]} />}
+          >
+            {otherReasons.slice(1).map((r, i) => (
+              <Finding key={`${i}-${r.text}`} finding={r} />
+            ))}
+          </Section>
+        )}
 
         <Section title="Signatures" wrap={false}>
           {data.signatures.length === 0 ? (

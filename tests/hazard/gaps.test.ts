@@ -469,6 +469,13 @@ describe("approach distances in an assessment", () => {
     expect(result.reasons.some((r) => r.criterion.startsWith("approach-distance"))).toBe(false);
   });
 
+  it("gives no distance when one voltage is beyond its table, whatever the other table says", () => {
+    // 900 kV DC is above NFPA 70E Table 130.4(E)(b)'s last row (800 kV); the 230 V AC row of Table
+    // 130.4(E)(a) (1.0 m / 0.3 m) says nothing about the 900 kV part. Engine 2.0.0 printed 1.0 m here.
+    const result = assessSetup(setup({ kind: "sphere-terminal", radius_m: 1, voltage_V: 900e3 }, ac(230, 1)));
+    expect(result.approach).toEqual({ limited_m: null, restricted_m: null });
+  });
+
   it("gives null distances and the beyond-the-table reason above 800 kV DC", () => {
     const result = assessSetup(setup({ kind: "sphere-terminal", radius_m: 1, voltage_V: 900e3 }));
     expect(result.approach).toEqual({ limited_m: null, restricted_m: null });

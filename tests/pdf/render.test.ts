@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { ABOUT_FIGURES_TEXT } from "@/lib/about-figures";
-import { formatQuantity, type Tier } from "@/lib/hazard";
+import { assessSetup, formatQuantity, type Tier } from "@/lib/hazard";
 import { dischargeSteps } from "@/lib/pdf/content";
 import { countPages, renderDocument } from "@/lib/pdf/render";
 import type { PaperSize, PrintData } from "@/lib/pdf/types";
@@ -151,6 +151,67 @@ describe("the printed permit", () => {
     expect(text).toContain("EXPIRED");
     expect(text).toContain("the last valid day was 31 Mar 2026");
     expect(text).not.toContain("ACTIVE");
+  });
+});
+
+describe("sources a reader can follow", () => {
+  // Issue 12: every reason and flag printed names its publication and clause, and nothing points at a
+  // document the reader does not have (the internal "hazard-references §…" notes of engine 1).
+  const INTERNAL = /hazard-references|§|\.md\b/;
+
+  it("prints each deciding reason and flag of a tier 3 permit with its publication and clause", async () => {
+    const data = samplePrintData(3);
+    const text = pdfText(await renderDocument(data, "permit", "a4"));
+    // 1 µF at 10 kV stores 50 J: the LBNL Electrical Safety Manual's capacitor row (≥ 100 V, ≥ 10 J),
+    // Table 2.2.13; the 50 MΩ bleeder needs 256 s to reach 60 V, against IEC 60204-1 6.2.4's 5 s.
+    expect(text).toContain(
+      "Lawrence Berkeley National Laboratory (LBNL) Electrical Safety Manual (current web edition), Table 2.2.13",
+    );
+    expect(text).toContain("IEC 60204-1 (2016), 6.2.4");
+    // the tier 3 criteria (approach rows and gap ceilings carry the tier too, but are figures' reasons)
+    const reasons = data.assessment.reasons.filter(
+      (r) => r.tier === 3 && !r.criterion.startsWith("approach") && r.criterion !== "gap-ceiling",
+    );
+    expect(reasons.length).toBeGreaterThan(0);
+    expect(text.match(/Source: /g)?.length ?? 0).toBeGreaterThanOrEqual(reasons.length + data.assessment.flags.length);
+    expect(text).not.toMatch(INTERNAL);
+  });
+
+  it.each([0, 1, 2, 4] as Tier[])("names no internal file on a tier %s permit or bench card", async (tier) => {
+    const data = samplePrintData(tier);
+    for (const kind of ["permit", "bench-card"] as const) {
+      expect(pdfText(await renderDocument(data, kind, "a4"))).not.toMatch(INTERNAL);
+    }
+  });
+
+  it("prints a permit stored by engine 1 without its internal pointers, keeping the publication", async () => {
+    const data = samplePrintData(3);
+    // The shape engine 1 stored: source text with a pointer into a working file, no reference id.
+    data.assessment = {
+      ...data.assessment,
+      engineVersion: "1.2.0",
+      reasons: data.assessment.reasons.map(({ ref: _ref, ...r }) => ({
+        ...r,
+        source: "LBNL Electrical Safety Manual, Table 2.2.13 (hazard-references §1a)",
+      })),
+      flags: data.assessment.flags.map(({ ref: _ref, ...f }) => ({ ...f, source: "hazard-references §6a" })),
+    };
+    const text = pdfText(await renderDocument(data, "permit", "a4"));
+    expect(text).toContain("LBNL Electrical Safety Manual, Table 2.2.13");
+    expect(text).not.toMatch(INTERNAL);
+  });
+
+  it("says a qualified person sets the approach distance above the last published row, never 'none'", async () => {
+    const data = samplePrintData(0);
+    // 900 kV DC is above NFPA 70E Table 130.4(E)(b)'s last row (500.1–800 kV): no published distance.
+    data.setup = { sources: [{ id: "Dome", kind: "sphere-terminal", radius_m: 1, voltage_V: 900e3 }] };
+    data.assessment = assessSetup(data.setup);
+    expect(data.assessment.approach.limited_m).toBeNull();
+    for (const kind of ["permit", "bench-card"] as const) {
+      const text = pdfText(await renderDocument(data, kind, "a4"));
+      expect(text, kind).toContain("set by a qualified person");
+      expect(text, kind).not.toMatch(/approach\s+none/i);
+    }
   });
 });
 

@@ -103,7 +103,7 @@ export function samplePrintData(tier: Tier, overrides: Partial<PrintData["permit
   });
   const code = "Q2hlY2tpbmcgdGhlIGJlbmNoIHBlcm1pdCBjb2RlIQ";
   return {
-    layoutVersion: 1,
+    layoutVersion: 2,
     institution: {
       name: "Aldermere Institute of Technology",
       emergencyContacts: [
