@@ -12,7 +12,7 @@ describe("POST /api/assess", () => {
   });
 
   it("answers the engine's assessment for a set-up", async () => {
-    // 1 µF at 10 kV: E = ½CV² = 50 J, Q = CV = 10 mC (hazard-references §5 test vectors).
+    // 1 µF at 10 kV: E = ½CV² = 50 J, Q = CV = 10 mC (worked by hand).
     const setup = { sources: [{ id: "bank", kind: "capacitor", capacitance_F: 1e-6, voltage_V: 10_000 }] };
     const res = await http("/api/assess", { method: "POST", cookie, body: setup });
     expect(res.status).toBe(200);

@@ -1,3 +1,4 @@
+import { all, create } from "mathjs";
 import { describe, expect, it } from "vitest";
 import {
   approachDistances,
@@ -12,24 +13,25 @@ import {
 import { ac, cap, expectWithin, inputError, setup } from "./support";
 
 // Voltage ceilings and distances. Spark-gap ceilings: the sphere-gap table inside its range, the
-// uniform-field law outside it, both corrected for air density (hazard-references §4). Shock approach
-// boundaries: the NFPA 70E tables (§6b), limited boundary from the "fixed part" column, "avoid
+// uniform-field law outside it, both corrected for air density (IEC 60052; IEC 60060-1). Shock approach
+// boundaries: the NFPA 70E tables, limited boundary from the "fixed part" column, "avoid
 // contact" rows giving a restricted distance of 0 with a note.
 
 const TORR_PA = 101325 / 760;
+const math = create(all, {});
 
-describe("air density δ (hazard-references §4d)", () => {
+describe("air density δ (IEC 60060-1 / IEC 60052: δ = (p / 101.3 kPa)·(293 K / (273 K + t)))", () => {
   it("is 1 at 101325 Pa and 20 °C", () => {
     expect(relativeAirDensity(101325, 20)).toBe(1);
   });
 
   it("is 0.916 at 720 Torr and 30 °C", () => {
-    // computed example, pe2bz "Spark Gap Correction Factors" formula (hazard-references §4d)
+    // worked example of a published sheet of spark-gap correction factors: 720 Torr and 30 °C give 0.916
     expectWithin(relativeAirDensity(720 * TORR_PA, 30), 0.916, 0.0005);
   });
 
   it.each([
-    // [Torr, °C, factor] — correction factors printed on the AIEE sheet (hazard-references §4c)
+    // [Torr, °C, factor] — correction factors printed on the reproduced AIEE spark-gap sheet
     [760, 20, 1.02],
     [720, 20, 0.96],
     [760, 0, 1.09],
@@ -39,16 +41,23 @@ describe("air density δ (hazard-references §4d)", () => {
   });
 });
 
-describe("uniform-field law (hazard-references §4b)", () => {
+describe("uniform-field law, V = 24.22·δd + 6.08·√(δd) kV with d in cm (high-voltage laboratory references)", () => {
+  it("gives about 30 kV at 1 cm, the textbook electric strength of air (3 MV/m)", () => {
+    // 3 × 10⁶ V/m for dry air at sea level (a meteorology glossary and college physics texts); "about": ±3 %
+    expectWithin(uniformFieldBreakdown_kV(1), 30, 0.03);
+  });
+
   it.each([
-    // [gap cm, kV] — computed from V = 24.22·x + 6.08·√x, x = d at δ = 1 (hazard-references §4b)
+    // [gap cm, kV]: the published law evaluated by mathjs with its units (kV/cm and kV/√cm)
     [0.1, 4.34],
     [0.5, 16.4],
     [1, 30.3],
     [2, 57.0],
     [5, 134.7],
   ])("gives %s cm → %s kV", (gap_cm, kV) => {
-    expectWithin(uniformFieldBreakdown_kV(gap_cm), kV, 0.005);
+    const law_kV = math.evaluate(`24.22 kV/cm * ${gap_cm} cm + 6.08 kV/sqrt(cm) * sqrt(${gap_cm} cm)`).toNumber("kV");
+    expectWithin(law_kV, kV, 0.005);
+    expectWithin(uniformFieldBreakdown_kV(gap_cm), law_kV, 1e-9);
     // through the engine: 50 cm spheres are outside the table, so the law applies
     const result = gapBreakdown({ sphereDiameter_m: 0.5, spacing_m: gap_cm / 100 });
     expect(result.method).toBe("uniform-field law");
@@ -225,7 +234,7 @@ describe("between columns and outside them", () => {
       pressure_Pa: 720 * TORR_PA,
       temperature_C: 30,
     });
-    // 10 cm column, 50 kV printed row × δ / δ_table; δ from the pe2bz formula (0.916 at 720 Torr, 30 °C)
+    // 10 cm column, 50 kV printed row × δ / δ_table; δ = 0.916 at 720 Torr, 30 °C (the correction sheet's example)
     expectWithin(result.breakdown_V, (50e3 * 0.916) / 0.983, 0.001);
   });
 
@@ -246,7 +255,8 @@ describe("refused gaps", () => {
   });
 
   it("refuses gaps below δ·d = 0.01 cm, where the law undershoots the minimum sparking voltage", () => {
-    // measured minimum about 327 V (hazard-references §4b): the law gives less below 0.01 cm
+    // the measured minimum sparking voltage of air is about 327 V (Paschen curve, published measurements):
+    // the law gives less below 0.01 cm
     expect(inputError(() => gapBreakdown({ sphereDiameter_m: 0.05, spacing_m: 5e-5 })).path).toEqual([
       "gaps",
       0,
@@ -361,9 +371,9 @@ describe("gap ceilings in an assessment: a gap caps only what it is across", () 
 describe("DC table, NFPA 70E Table 130.4(E)(b)", () => {
   it.each([
     // [volts, limited m, restricted m, row]
-    [100, 1.0, 0, "100–300 V"], // memory (hazard-references §6b): avoid contact
+    [100, 1.0, 0, "100–300 V"], // memory: avoid contact
     [300, 1.0, 0, "100–300 V"], // memory
-    [301, 1.0, 0.3, "301 V–1 kV"], // found: 500 V DC example (hazard-references §6b)
+    [301, 1.0, 0.3, "301 V–1 kV"], // read: a training course's 500 V DC worked example
     [500, 1.0, 0.3, "301 V–1 kV"], // found
     [1000, 1.0, 0.3, "301 V–1 kV"], // found
     [3000, 1.5, 0.5, "1.1–5 kV"], // memory
@@ -416,7 +426,7 @@ describe("DC table, NFPA 70E Table 130.4(E)(b)", () => {
 describe("AC table, NFPA 70E Table 130.4(E)(a)", () => {
   it.each([
     [120, 1.0, 0, "50–150 V"], // memory; older table's 50–300 V row has the same distances (found)
-    [208, 1.0, 0.3, "151–750 V"], // found: 208 V example (hazard-references §6b)
+    [208, 1.0, 0.3, "151–750 V"], // read: a training course's 208 V worked example
     [480, 1.0, 0.3, "151–750 V"], // found: 480 V example
     [10e3, 1.5, 0.7, "751 V–15 kV"], // found: older table
     [20e3, 1.8, 0.8, "15.1–36 kV"], // found: older table

@@ -32,7 +32,7 @@ describe("labels", () => {
 
 describe("touch-safe voltage: 60 V DC, 30 V rms (IEC 62368-1 ES1, memory)", () => {
   it("keeps any stored energy at 60 V in tier 0 and raises the thermal flag instead", () => {
-    // IEC 62368-1 ES1 60 V DC (memory); LBNL thermal: < 100 V and > 100 J (hazard-references §1a)
+    // IEC 62368-1 ES1 60 V DC (memory); LBNL thermal: < 100 V and > 100 J
     const result = assessSetup(setup(cap(1, 60)));
     expect(result.tier).toBe(0);
     expect(result.energy_J).toBe(1800);
@@ -62,25 +62,25 @@ describe("touch-safe voltage: 60 V DC, 30 V rms (IEC 62368-1 ES1, memory)", () =
 
 describe("tier 0 capacitance levels (IEC 60335-1 8.1.4; IEC 61010-1 6.3, memory)", () => {
   it("≤ 0.1 µF from 60 V to 450 V", () => {
-    // IEC 60335-1 8.1.4: 0.1 µF for 42.4–450 V (hazard-references §2b)
+    // IEC 60335-1 8.1.4: 0.1 µF for 42.4–450 V
     expect(tierOfSource(cap(0.1e-6, 100))).toBe(0);
     expect(tierOfSource(cap(0.1001e-6, 100))).toBe(1);
     expect(tierOfSource(cap(0.1e-6, 450))).toBe(0);
   });
 
   it("≤ 45 µC from 450 V to 15 kV: exactly 45 µC at 10 kV is tier 0, just above tier 1", () => {
-    // IEC 60335-1 8.1.4: 45 µC for 450 V–15 kV (hazard-references §2b); 4.5 nF at 10 kV (§5)
+    // IEC 60335-1 8.1.4: 45 µC for 450 V–15 kV; 4.5 nF at 10 kV holds 45 µC
     expect(tierOfSource(cap(4.5e-9, 10e3))).toBe(0);
     expect(tierOfSource(cap(4.51e-9, 10e3))).toBe(1);
-    // 45 nF at 1 kV (§5 test vectors)
+    // 45 nF at 1 kV (½·C·V² = 350 mJ)
     expect(tierOfSource(cap(45e-9, 1000))).toBe(0);
     expect(tierOfSource(cap(45.1e-9, 1000))).toBe(1);
-    // 0.45 µF at 100 V holds 45 µC too, but at 100 V the 0.1 µF level applies (§5 test vectors)
+    // 0.45 µF at 100 V holds 45 µC too, but at 100 V the 0.1 µF level applies (½·C·V² = 350 mJ)
     expect(tierOfSource(cap(0.45e-6, 100))).toBe(1);
   });
 
   it("≤ 350 mJ above 15 kV, visible when the 0.25 J criterion is moved out of the way", () => {
-    // IEC 60335-1 8.1.4: 350 mJ above 15 kV (hazard-references §2b); 280 pF at 50 kV (§5 test vectors)
+    // IEC 60335-1 8.1.4: 350 mJ above 15 kV; 280 pF at 50 kV (½·C·V² = 350 mJ)
     const loose: TierRules = {
       ...DEFAULT_RULES,
       rulesVersion: "test-loose-reflex",
@@ -100,7 +100,7 @@ describe("tier 0 capacitance levels (IEC 60335-1 8.1.4; IEC 61010-1 6.3, memory)
   });
 
   it("keeps an electrostatic sphere terminal with a small charge in tier 0", () => {
-    // 10 cm sphere (5.56 pF, §5) at 100 kV: 27.8 mJ ≤ 350 mJ
+    // 10 cm sphere (5.56 pF, 4·π·ε0·5 cm) at 100 kV: 27.8 mJ ≤ 350 mJ
     expect(tierOfSource({ kind: "sphere-terminal", radius_m: 0.05, voltage_V: 100e3 })).toBe(0);
   });
 
@@ -127,7 +127,7 @@ describe("tier 0 capacitance levels (IEC 60335-1 8.1.4; IEC 61010-1 6.3, memory)
 
 describe("stored-energy thresholds", () => {
   it("exactly 0.25 J is tier 2, just below tier 1", () => {
-    // capacitor discharge guideline: 0.25 J heavy shock (hazard-references §1c); E=½CV² at 1 kV
+    // capacitor discharge guideline: 0.25 J heavy shock; E=½CV² at 1 kV
     expect(tierOfSource(cap(0.5e-6, 1000))).toBe(2);
     expect(tierOfSource(cap(0.499e-6, 1000))).toBe(1);
   });
@@ -142,12 +142,12 @@ describe("stored-energy thresholds", () => {
   });
 
   it.each([
-    // the 10 J capacitances of hazard-references §5
+    // capacitances that store 10 J (½·C·V²)
     [125e-6, 400],
     [20e-6, 1000],
     [0.2e-6, 10e3],
   ])("%s F at %s V (10 J) is tier 3", (C, V) => {
-    // LBNL ESM Table 2.2.13 (hazard-references §1a)
+    // LBNL ESM Table 2.2.13
     expect(tierOfSource(cap(C, V))).toBe(3);
   });
 
@@ -159,7 +159,7 @@ describe("stored-energy thresholds", () => {
   });
 
   it("exactly 10 kJ at 100 V is tier 4, just below tier 3", () => {
-    // LBNL ESM arc flash: capacitors ≥ 100 V and ≥ 10 kJ (hazard-references §1a); E = ½ × 2 F × (100 V)²
+    // LBNL ESM arc flash: capacitors ≥ 100 V and ≥ 10 kJ; E = ½ × 2 F × (100 V)²
     expect(tierOfSource(cap(2, 100))).toBe(4);
     expect(tierOfSource(cap(1.999, 100))).toBe(3);
   });
@@ -175,19 +175,19 @@ describe("stored-energy thresholds", () => {
 
 describe("DC supply thresholds", () => {
   it("2 mA is tier 0, just above tier 1", () => {
-    // IEC 61010-1 touch current 2 mA DC (found in an instrument manual, hazard-references §2a)
+    // IEC 61010-1 touch current 2 mA DC (found in an instrument manual)
     expect(tierOfSource(dc(1000, 2e-3))).toBe(0);
     expect(tierOfSource(dc(1000, 2.01e-3))).toBe(1);
   });
 
   it("25 mA is tier 2, 24.9 mA tier 1", () => {
-    // IEC 62368-1 ES2 25 mA DC (memory, hazard-references §2c)
+    // IEC 62368-1 ES2 25 mA DC (memory)
     expect(tierOfSource(dc(1000, 25e-3))).toBe(2);
     expect(tierOfSource(dc(1000, 24.9e-3))).toBe(1);
   });
 
   it("40 mA at 100 V is tier 3; 39.9 mA, or any current below 100 V, is not", () => {
-    // LBNL ESM Table 2.2.13: DC ≥ 100 V and ≥ 40 mA (hazard-references §1a)
+    // LBNL ESM Table 2.2.13: DC ≥ 100 V and ≥ 40 mA
     expect(tierOfSource(dc(100, 40e-3))).toBe(3);
     expect(tierOfSource(dc(100, 39.9e-3))).toBe(2);
     expect(tierOfSource(dc(99.9, 1))).toBe(2);
@@ -200,7 +200,7 @@ describe("DC supply thresholds", () => {
   });
 
   it("a current limit of 500 A at 100 V is tier 4, 499 A tier 3", () => {
-    // LBNL ESM arc flash: DC ≥ 100 V and ≥ 500 A (hazard-references §1a)
+    // LBNL ESM arc flash: DC ≥ 100 V and ≥ 500 A
     expect(tierOfSource(dc(100, 500))).toBe(4);
     expect(tierOfSource(dc(100, 499))).toBe(3);
     expect(tierOfSource(dc(99, 1000))).toBe(2);
@@ -209,19 +209,19 @@ describe("DC supply thresholds", () => {
 
 describe("AC supply thresholds", () => {
   it("0.5 mA rms is tier 0, just above tier 1", () => {
-    // IEC 61010-1 touch current 0.5 mA rms (found in an instrument manual, hazard-references §2a)
+    // IEC 61010-1 touch current 0.5 mA rms (found in an instrument manual)
     expect(tierOfSource(ac(230, 0.5e-3))).toBe(0);
     expect(tierOfSource(ac(230, 0.51e-3))).toBe(1);
   });
 
   it("5 mA rms is tier 2, 4.99 mA tier 1", () => {
-    // LBNL ESM Table 2.2.13 AC ≥ 5 mA; IEC 62368-1 ES2 5 mA rms (memory) (hazard-references §1a, §2c)
+    // LBNL ESM Table 2.2.13 AC ≥ 5 mA; IEC 62368-1 ES2 5 mA rms (memory)
     expect(tierOfSource(ac(230, 5e-3))).toBe(2);
     expect(tierOfSource(ac(230, 4.99e-3))).toBe(1);
   });
 
   it("30 mA rms at 50 V rms is tier 3; 29.9 mA, or below 50 V rms, is not", () => {
-    // IEC 60479-1 fibrillation zone about 30 mA (memory); LBNL 50 V AC (hazard-references §1a, §3c)
+    // 30 mA rms: the rated residual current of the RCD IEC 60364-4-41 411.3.3 asks for (memory); LBNL ESM Table 2.2.13: AC ≥ 50 V
     expect(tierOfSource(ac(230, 30e-3))).toBe(3);
     expect(tierOfSource(ac(230, 29.9e-3))).toBe(2);
     expect(tierOfSource(ac(50, 1))).toBe(3);
@@ -248,10 +248,12 @@ describe("reasons", () => {
     expect(lethal?.source).toContain("LBNL");
   });
 
-  it("makes the tier the highest tier among the reasons", () => {
+  it("puts a 230 V rms supply driving 30 mA in tier 3 beside smaller sources, by the AC current criterion", () => {
     const result = assessSetup(setup(dc(1000, 1e-3), ac(230, 30e-3), cap(1e-9, 1000)));
+    // 230 V rms driving 30 mA: ≥ 30 mA rms at ≥ 50 V rms (IEC 60364-4-41 RCD rating, memory; LBNL ESM
+    // Table 2.2.13 for the 50 V) is tier 3, whatever the smaller DC supply and capacitor add
     expect(result.tier).toBe(3);
-    expect(Math.max(...result.reasons.map((r) => r.tier))).toBe(3);
+    expect(result.reasons.find((r) => r.tier === 3)?.criterion).toBe("fibrillation-current-ac");
     expect(criteria(setup(dc(1000, 1e-3), ac(230, 30e-3)))).toEqual(
       expect.arrayContaining(["fibrillation-current-ac", "let-go-current-ac", "touch-current-dc"]),
     );
@@ -276,19 +278,19 @@ describe("reasons", () => {
 describe("flags", () => {
   const codes = (input: SetupInput) => assessSetup(input).flags.map((f) => f.code);
 
-  it("thermal: below 100 V and above 100 J (LBNL ESM, hazard-references §1a)", () => {
+  it("thermal: below 100 V and above 100 J (LBNL ESM)", () => {
     expect(codes(setup(cap(0.03, 99)))).toContain("thermal"); // 147 J at 99 V
     expect(codes(setup(cap(0.08, 50)))).not.toContain("thermal"); // exactly 100 J: not above
     expect(codes(setup(cap(1, 100)))).not.toContain("thermal"); // 5 kJ at 100 V: not below 100 V
   });
 
-  it("x-ray: a vacuum device at 10 kV or more (practitioner reports, hazard-references §6d)", () => {
+  it("x-ray: a vacuum device at 10 kV or more (practitioner reports)", () => {
     expect(codes({ sources: [dc(10e3, 1e-3)], vacuumDevice: true })).toContain("x-ray");
     expect(codes({ sources: [dc(9.99e3, 1e-3)], vacuumDevice: true })).not.toContain("x-ray");
     expect(codes({ sources: [dc(30e3, 1e-3)] })).not.toContain("x-ray");
   });
 
-  it("ozone: any gap, or 10 kV and more (common practice, hazard-references §6c)", () => {
+  it("ozone: any gap, or 10 kV and more (common practice)", () => {
     expect(codes({ sources: [cap(1e-9, 1000)], gaps: [{ sphereDiameter_m: 0.05, spacing_m: 0.01 }] })).toContain(
       "ozone",
     );
@@ -297,7 +299,7 @@ describe("flags", () => {
   });
 
   it("ignition: stored energy of 0.2 mJ or more (memory)", () => {
-    // HBM 100 pF at 2 kV stores exactly 0.2 mJ (hazard-references §5)
+    // HBM 100 pF at 2 kV stores exactly 0.2 mJ
     expect(codes(setup(cap(100e-12, 2000)))).toContain("ignition");
     expect(codes(setup(cap(100e-12, 1900)))).not.toContain("ignition");
   });
@@ -314,7 +316,7 @@ describe("flags", () => {
     );
   });
 
-  it("no-bleeder: more than 0.1 J stored without a bleeder (capacitor discharge guideline, hazard-references §1c)", () => {
+  it("no-bleeder: more than 0.1 J stored without a bleeder (capacitor discharge guideline)", () => {
     // 0.2 µF at 1 kV = 0.1 J exactly: not above
     expect(codes(setup(cap(0.2e-6, 1000)))).not.toContain("no-bleeder");
     expect(codes(setup(cap(0.22e-6, 1000)))).toContain("no-bleeder");
@@ -414,7 +416,7 @@ describe("rules as data", () => {
   });
 });
 
-describe("required controls (hazard-model.md, common practice)", () => {
+describe("required controls (common practice)", () => {
   it("requires nothing at tier 0", () => {
     expect(requiredControls(0)).toEqual([]);
   });

@@ -39,7 +39,7 @@ describe("parseQuantity accepts bench notation", () => {
     ["1.5E-9F", "capacitance", 1.5e-9],
     ["30 kV", "voltage", 30e3],
     ["2 MΩ", "resistance", 2e6],
-    ["2 MΩ", "resistance", 2e6], // ohm sign U+2126
+    ["2 M\u2126", "resistance", 2e6], // ohm sign U+2126, written as an escape so it cannot be a copy of U+03A9
     ["2 Mohm", "resistance", 2e6],
     ["2 MOhm", "resistance", 2e6],
     ["470 kohm", "resistance", 470e3],
