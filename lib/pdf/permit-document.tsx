@@ -80,7 +80,7 @@ function Section({
   wrap?: boolean;
 }) {
   return (
-    <View style={{ marginTop: 8 }} wrap={wrap}>
+    <View style={{ marginTop: 6 }} wrap={wrap}>
       <View wrap={false}>
         <Text style={s.h2}>{title}</Text>
         {lead}
@@ -268,7 +268,7 @@ export function PermitDocument({ data, size, qr }: { data: PrintData; size: Pape
                 }}
               >
                 <Label>{f.label}</Label>
-                <Text style={[s.mono, { fontSize: 17, color: INK.text, marginTop: 1 }]}>{f.value}</Text>
+                <Text style={[s.mono, { fontSize: 16, color: INK.text, marginTop: 1 }]}>{f.value}</Text>
                 <Text style={{ fontSize: 7.5, color: INK.faint }}>{f.note}</Text>
               </View>
             ))}
@@ -278,7 +278,7 @@ export function PermitDocument({ data, size, qr }: { data: PrintData; size: Pape
         <View style={{ flexDirection: "row", marginTop: 4 }}>
           <View style={{ flex: 1.7, paddingRight: 14 }}>
             <Section title="Before anyone touches it: discharge">
-              <NumberedSteps steps={dischargeSteps(setup, assessment)} fontSize={10.5} />
+              <NumberedSteps steps={dischargeSteps(setup, assessment)} fontSize={10} />
             </Section>
           </View>
           <View style={{ flex: 1 }}>
