@@ -16,8 +16,9 @@ const LIB_DOMAINS = {
   env: [],
   errors: [], // the one error type and its status table
   caution: [],
-  client: [], // browser helpers for forms and roles
+  client: [], // browser helpers for forms
   "about-figures": [], // the "About these figures" note
+  roles: [], // the one list of roles and their labels
   "tier-colours": ["hazard"],
   "tier-glyph": ["hazard"],
   "signal-word": ["hazard"],
@@ -26,14 +27,14 @@ const LIB_DOMAINS = {
   storage: ["env"],
   ratelimit: ["env", "errors"],
   settings: ["audit", "auth"],
-  auth: ["audit", "env", "errors", "ratelimit", "http/client-ip.ts", "http/return-path.ts"],
+  auth: ["audit", "env", "errors", "ratelimit", "roles", "http/client-ip.ts", "http/return-path.ts"],
   http: ["auth", "env", "errors", "ratelimit"],
   // Queueing mail inside a domain's transaction; an invitation's link is rebuilt from its id.
   outbox: ["audit", "env", "users/invitation-token.ts"],
   signing: ["audit", "auth", "errors", "ratelimit"], // password re-ask, content hash, separation of duties
   ops: ["storage"], // health checks and graceful drain
   // Domains, lower ones first.
-  rules: ["audit", "auth", "errors", "hazard"],
+  rules: ["audit", "auth", "errors", "hazard", "roles"],
   "hazard-rules": ["hazard", "rules"],
   users: ["audit", "auth", "env", "errors", "outbox", "ratelimit"],
   apparatus: ["audit", "auth", "errors", "hazard", "hazard-rules"],
@@ -87,6 +88,7 @@ const LIB_DOMAINS = {
     "errors",
     "hazard",
     "permits",
+    "roles",
     "settings",
     "signing",
     "signal-word",
@@ -102,8 +104,8 @@ const LIB_DOMAINS = {
 };
 // emails/ renders messages the outbox holds; it may use these lib domains and nothing else.
 const EMAILS_MAY_USE = ["about-figures", "hazard", "outbox", "tier-colours", "tier-glyph"];
-// db/ is below lib/: only the pure engine's types and the environment.
-const DB_MAY_USE = ["env", "hazard"];
+// db/ is below lib/: only the pure engine's types, the environment and the list of roles.
+const DB_MAY_USE = ["env", "hazard", "roles"];
 
 const isSingleFile = (name) => fs.existsSync(new URL(`./lib/${name}.ts`, import.meta.url));
 const libPath = (name) => (isSingleFile(name) ? `./lib/${name}.ts` : `./lib/${name}`);

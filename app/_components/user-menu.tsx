@@ -1,5 +1,6 @@
 import Link from "next/link";
 import { SignOutButton } from "./sign-out-button";
+import { isRole, ROLE_LABELS } from "@/lib/roles";
 import { cx } from "./cx";
 
 export type ShellUser = { name: string; roles: readonly string[] };
@@ -11,16 +12,8 @@ type UserMenuProps = {
   className?: string;
 };
 
-const ROLE_LABELS: Record<string, string> = {
-  instructor: "Instructor",
-  reviewer: "Reviewer",
-  safety_officer: "Safety officer",
-  admin: "Admin",
-};
-
 export function roleLabel(role: string): string {
-  const known = ROLE_LABELS[role];
-  if (known) return known;
+  if (isRole(role)) return ROLE_LABELS[role];
   const words = role.replace(/[_-]+/g, " ").trim();
   return words.charAt(0).toUpperCase() + words.slice(1);
 }

@@ -1,10 +1,11 @@
 import { sql } from "drizzle-orm";
 import { check, index, integer, pgEnum, pgTable, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
+import { ROLES, type Role } from "../../lib/roles";
 
 // People and the departments they belong to. Roles are an array: a person may hold several.
 
-export const ROLES = ["instructor", "reviewer", "safety_officer", "admin"] as const;
-export type Role = (typeof ROLES)[number];
+// The list itself is lib/roles.ts (relative import: drizzle-kit reads this file without path aliases).
+export { ROLES, type Role };
 export const roleEnum = pgEnum("role", ROLES);
 
 export const departments = pgTable("department", {

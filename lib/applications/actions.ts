@@ -1,5 +1,5 @@
 import "server-only";
-import { and, arrayContains, asc, eq, inArray, isNull, sql } from "drizzle-orm";
+import { and, asc, eq, inArray, isNull, sql } from "drizzle-orm";
 import { db } from "@/db";
 import {
   apparatus,
@@ -14,6 +14,7 @@ import { canReadApparatus } from "@/lib/apparatus/access";
 import { normalizeSetup, setupToText } from "@/lib/apparatus/setup-text";
 import { writeAudit, type Tx } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
+import { usersWithPermission } from "@/lib/auth/holders";
 import { assessSetup, type TierRules } from "@/lib/hazard";
 import { currentTierRules } from "@/lib/hazard-rules";
 import { AppError, conflict, notFound, type FieldIssue } from "@/lib/errors";
@@ -397,16 +398,7 @@ export async function submitApplication(actor: CurrentUser, applicationId: strin
     if (updated.state === "submitted") {
       // Reviewers of the department hear of it; people who may not decide on it (the applicant
       // and those named on it) are left out even when they hold the reviewer role.
-      const reviewers = await tx
-        .select({ id: users.id, email: users.email })
-        .from(users)
-        .where(
-          and(
-            eq(users.departmentId, app.departmentId),
-            arrayContains(users.roles, ["reviewer"]),
-            isNull(users.disabledAt),
-          ),
-        );
+      const reviewers = await usersWithPermission(tx, "application.review", { departmentId: app.departmentId });
       const excluded = new Set([actor.id, ...named]);
       await queueMail(
         tx,

@@ -1,4 +1,4 @@
-import type { Role } from "@/db/schema/users";
+import type { Role } from "@/lib/roles";
 
 // The one table that maps permissions to roles. Business code asks for a permission, never a role
 // name. Record-level rules (own application, own department, separation of duties) live in
@@ -31,10 +31,3 @@ export function rolesHave(roles: readonly Role[], permission: Permission): boole
   const allowed: readonly Role[] = PERMISSIONS[permission];
   return roles.some((role) => allowed.includes(role));
 }
-
-export const ROLE_LABELS: Record<Role, string> = {
-  instructor: "Instructor",
-  reviewer: "Reviewer",
-  safety_officer: "Safety officer",
-  admin: "Admin",
-};

@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { safeReturnPath } from "@/lib/http/return-path";
+import { ROLES } from "@/lib/roles";
 
 // Schemas for sign-in, invitations and passwords, shared by the forms and the server.
 
@@ -34,12 +35,10 @@ export const newPasswordSchema = z
   .min(PASSWORD_MIN, `Use at least ${PASSWORD_MIN} characters.`)
   .max(PASSWORD_MAX, `Use at most ${PASSWORD_MAX} characters.`);
 
-export const ROLE_VALUES = ["instructor", "reviewer", "safety_officer", "admin"] as const;
-
 export const roleListSchema = z
-  .array(z.enum(ROLE_VALUES, { error: "Unknown role." }))
+  .array(z.enum(ROLES, { error: "Unknown role." }))
   .min(1, "Choose at least one role.")
-  .max(4)
+  .max(ROLES.length)
   .transform((roles) => [...new Set(roles)]);
 
 export const inviteSchema = z.object({

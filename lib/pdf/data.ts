@@ -2,7 +2,7 @@ import "server-only";
 import { and, asc, eq, inArray } from "drizzle-orm";
 import { db } from "@/db";
 import { applicationRevisions, applications, decisions, permits, users, type PermitState } from "@/db/schema";
-import { ROLE_LABELS } from "@/lib/auth/permissions";
+import { isRole, ROLE_LABELS } from "@/lib/roles";
 import { env } from "@/lib/env";
 import { readInstitutionSettings } from "@/lib/settings/queries";
 import { TIER_LABELS, type Assessment, type SetupInput, type Tier } from "@/lib/hazard";
@@ -63,7 +63,7 @@ const str = (value: unknown): string => (typeof value === "string" ? value : "")
 const arr = (value: unknown): unknown[] => (Array.isArray(value) ? value : []);
 
 function roleLabel(role: string): string {
-  return (ROLE_LABELS as Record<string, string>)[role] ?? role;
+  return isRole(role) ? ROLE_LABELS[role] : role;
 }
 
 export async function loadPrintData(permitId: string, now: Date = new Date()): Promise<PrintData> {

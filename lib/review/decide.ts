@@ -1,12 +1,11 @@
 import "server-only";
-import { and, eq, isNull, sql } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import { db } from "@/db";
 import { isUniqueViolation } from "@/db/errors";
 import {
   applicationRevisions,
   applications,
   decisions,
-  users,
   type Application,
   type Decision,
   type Permit,
@@ -15,6 +14,7 @@ import { canReadApplication } from "@/lib/applications/access";
 import { transition } from "@/lib/applications/state";
 import { writeAudit, type DbOrTx, type Tx } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
+import { usersWithPermission } from "@/lib/auth/holders";
 import { AppError, conflict, forbidden, invalidField, notFound } from "@/lib/errors";
 import { queueMail } from "@/lib/outbox";
 import {
@@ -95,11 +95,9 @@ async function signerIdsOf(tx: DbOrTx, revisionId: string): Promise<string[]> {
   return rows.map((r) => r.signerId);
 }
 
-async function safetyOfficerEmails(tx: Tx, except: readonly string[]): Promise<string[]> {
-  const rows = await tx
-    .select({ id: users.id, email: users.email })
-    .from(users)
-    .where(and(sql`'safety_officer' = ANY(${users.roles})`, isNull(users.disabledAt)));
+/** Those who give the final approval (the permission table's approvers), less `except`. */
+async function approverEmails(tx: Tx, except: readonly string[]): Promise<string[]> {
+  const rows = await usersWithPermission(tx, "permit.approve", "institution");
   return rows.filter((r) => !except.includes(r.id)).map((r) => r.email);
 }
 
@@ -321,7 +319,7 @@ async function notify(
       });
       return;
     case "recommend": {
-      const officers = await safetyOfficerEmails(tx, [application.applicantId, ...application.namedUserIds, actor.id]);
+      const officers = await approverEmails(tx, [application.applicantId, ...application.namedUserIds, actor.id]);
       await queueMail(tx, officers, {
         kind: "application_recommended",
         data: { applicationId: application.id, title: application.title, reviewerName: actor.name, tier: input.tier },

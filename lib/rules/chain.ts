@@ -1,16 +1,17 @@
 import { z } from "zod";
+import { ROLE_LABELS, type Role } from "@/lib/roles";
 
 // Chain rules as data: for each tier, who signs and in what order, the longest permit validity and
 // the extra requirements the final approver confirms as permit conditions. Pure (no I/O), so the
 // admin form, the review policy and the tests share one definition. Stored versioned in rule_set
 // (kind "chain"); version 0 is these built-in defaults, used until an admin adopts a version.
 
-export const STEP_ROLES = ["reviewer", "safety_officer"] as const;
+export const STEP_ROLES = ["reviewer", "safety_officer"] as const satisfies readonly Role[];
 export type StepRole = (typeof STEP_ROLES)[number];
 
 export const STEP_ROLE_LABELS: Record<StepRole, string> = {
-  reviewer: "Reviewer",
-  safety_officer: "Safety officer",
+  reviewer: ROLE_LABELS.reviewer,
+  safety_officer: ROLE_LABELS.safety_officer,
 };
 
 export type Requirement = { id: string; text: string };

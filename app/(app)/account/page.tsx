@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { Card } from "@/app/_components/card";
 import { PageHeader } from "@/app/_components/page-header";
 import { requirePageUser } from "@/lib/auth/guards";
-import { ROLE_LABELS } from "@/lib/auth/permissions";
+import { ROLE_LABELS } from "@/lib/roles";
 import { hasCalendarFeed } from "@/lib/calendar/queries";
 import { CalendarFeed } from "./calendar-feed";
 import { ChangePasswordForm } from "./change-password-form";

@@ -9,12 +9,12 @@ import { Alert } from "@/app/_components/alert";
 import { Button } from "@/app/_components/button";
 import { Field, FieldShell, controlClasses } from "@/app/_components/field";
 import { ApiError, apiFetch } from "@/lib/client/api";
-import { ROLE_OPTIONS } from "@/lib/client/roles";
+import { ROLE_OPTIONS, ROLES } from "@/lib/roles";
 
 const formSchema = z.object({
   email: z.string().trim().min(1, "Enter an e-mail address.").email("Enter a valid e-mail address."),
   name: z.string().trim().min(1, "Enter the person's name.").max(120),
-  roles: z.array(z.enum(["instructor", "reviewer", "safety_officer", "admin"])).min(1, "Choose at least one role."),
+  roles: z.array(z.enum(ROLES)).min(1, "Choose at least one role."),
   departmentId: z.string(),
 });
 type FormValues = z.infer<typeof formSchema>;

@@ -5,13 +5,13 @@ import { useState } from "react";
 import { Button } from "@/app/_components/button";
 import { controlClasses } from "@/app/_components/field";
 import { apiFetch } from "@/lib/client/api";
-import { ROLE_OPTIONS, type RoleValue } from "@/lib/client/roles";
+import { ROLE_OPTIONS, type Role } from "@/lib/roles";
 
 export type UserRow = {
   id: string;
   name: string;
   email: string;
-  roles: RoleValue[];
+  roles: Role[];
   departmentId: string | null;
   disabled: boolean;
   hasPassword: boolean;
@@ -67,7 +67,7 @@ function UserRowEditor({
   isSelf: boolean;
 }) {
   const router = useRouter();
-  const [roles, setRoles] = useState<RoleValue[]>(user.roles);
+  const [roles, setRoles] = useState<Role[]>(user.roles);
   const [departmentId, setDepartmentId] = useState(user.departmentId ?? "");
   const [message, setMessage] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
