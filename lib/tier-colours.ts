@@ -1,9 +1,9 @@
 import type { Tier } from "@/lib/hazard/types";
 
 // Benchclear's tier colours, the one definition: 0 slate, 1 teal, 2 amber, 3 crimson, 4 violet. The
-// screen's Tailwind classes (bg-tier-N, bg-tier-N-light, border-tier-N-border, text-tier-N-text), the
-// printed permit and bench card (lib/pdf) and the e-mails (emails/components.tsx) all take them from
-// here. Per tier:
+// screen's Tailwind classes (bg-tier-N, bg-tier-N-light, border-tier-N-border, text-tier-N-text,
+// through lib/tier-colours.tailwind.ts), the printed permit and bench card (lib/pdf) and the e-mails
+// (emails/components.tsx) all take them from here. Per tier:
 //   swatch  solid marks and bars (≥ 3:1 on white and on the tint; not for text)
 //   tint    a background
 //   border  a border on the tint

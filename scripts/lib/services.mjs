@@ -537,7 +537,6 @@ const buildInputs = [
   "proxy.ts",
   "instrumentation.ts",
   "next.config.mjs",
-  "tailwind.config.ts",
   "postcss.config.mjs",
   "tsconfig.json",
   "package-lock.json",
