@@ -18,6 +18,25 @@ async function register(cookie: string, body: Record<string, unknown>) {
 }
 
 describe("POST /api/apparatus and PATCH /api/apparatus/[id]", () => {
+  it("stores a figure that looks mistyped once the form has had it confirmed: the server does not refuse it", async () => {
+    // 200 mΩ across a 40 kV bank would dissipate (40 kV)² / 0.2 Ω = 8 GW: the engine flags it as
+    // implausible and the form asks the user to confirm; an unusual part can be real, so the API
+    // stores it, with the flag in the stored assessment.
+    const set = await createRoleSet();
+    const cookie = await signIn(set.instructor.email);
+    const setup: SetupInput = {
+      sources: [{ id: "bank", kind: "capacitor", capacitance_F: 1e-6, voltage_V: 40_000, bleeder_ohm: 0.2 }],
+    };
+    const created = await register(cookie, { name: "Bank with a low bleeder", room: "B12", notes: "", setup });
+    expect(created.status, created.text).toBe(201);
+    const [row] = await getDb()
+      .select({ assessment: apparatusRevisions.assessment })
+      .from(apparatusRevisions)
+      .where(eq(apparatusRevisions.apparatusId, created.json!.apparatus.id));
+    const flags = (row.assessment as { flags: { code: string; field?: string }[] }).flags;
+    expect(flags).toContainEqual(expect.objectContaining({ code: "implausible", field: "sources[0].bleeder_ohm" }));
+  });
+
   it("registers revision 1 with the engine's assessment, and every edit adds a revision", async () => {
     const set = await createRoleSet();
     const cookie = await signIn(set.instructor.email);

@@ -85,8 +85,22 @@ describe("the six-step application form, in a real browser", () => {
       await expect.poll(() => page.getByTestId("live-tier").textContent()).toContain("Tier 2 · Reflex injury");
       // 2.115 J is 2.11499… in binary floating point: three significant digits show it as 2.11 J.
       expect(await liveFigure(page, "Energy")).toBe("2.11 J");
+      // A mistyped prefix, mΩ for MΩ: (30 kV)² / 100 mΩ = 9 GW in the bleeder (engine "implausible"
+      // flag). Next stops at step 2 and asks for the figure to be corrected or confirmed.
+      await page.getByLabel("Bleeder resistor across the bank").fill("100 mΩ");
+      await expect.poll(() => page.getByTestId("implausible-confirm").isVisible()).toBe(true);
+      await page.getByRole("button", { name: "Next: Hazard result" }).click();
+      await expect.poll(() => page.getByText(/confirm it is as intended before moving on/).isVisible()).toBe(true);
+      expect(await stepHeading(page)).toBe("Step 2 of 6: Apparatus");
+      // Confirming the named figure lets the user move on; then they go back and correct it.
+      await page.getByLabel(/I have checked .*bleeder resistance: not mistyped/).check();
+      await page.getByRole("button", { name: "Next: Hazard result" }).click();
+      await expect.poll(() => stepHeading(page)).toBe("Step 3 of 6: Hazard result");
+      await page.getByRole("button", { name: "Back" }).click();
+      await expect.poll(() => stepHeading(page)).toBe("Step 2 of 6: Apparatus");
       await page.getByLabel("Bleeder resistor across the bank").fill("100 MΩ");
       await expect.poll(() => page.getByText("Reads as 100 MΩ").isVisible()).toBe(true);
+      expect(await page.getByTestId("implausible-confirm").count()).toBe(0);
       await expectNoSeriousViolations(page, "step 2");
 
       // The live figures are the server's: POST /api/assess for the same set-up gives the same numbers.

@@ -3,7 +3,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useMutation } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
-import { useState } from "react";
+import { useRef, useState } from "react";
 import { FormProvider, useForm, useWatch } from "react-hook-form";
 import { Alert } from "@/app/_components/alert";
 import { Button } from "@/app/_components/button";
@@ -11,6 +11,7 @@ import { Card } from "@/app/_components/card";
 import { useBrowserDraft } from "@/app/_components/forms/use-browser-draft";
 import { useLeaveGuard } from "@/app/_components/forms/use-leave-guard";
 import { controlClasses, Field, FieldShell } from "@/app/_components/field";
+import { ImplausibleConfirm, implausibleFlags, implausibleKey } from "@/app/_components/hazard/implausible-confirm";
 import { LiveFigures } from "@/app/_components/hazard/live-figures";
 import { QueryProvider } from "@/app/_components/hazard/query-provider";
 import { SetupEditor } from "@/app/_components/hazard/setup-editor";
@@ -55,6 +56,13 @@ function ApparatusFormInner(props: ApparatusFormProps) {
   const setupText = useWatch({ control: form.control, name: "setup" });
   const live = useLiveAssessment(setupText, props.rules);
   const errors = form.formState.errors;
+  // A figure that looks mistyped (engine "implausible" flag) is confirmed before saving.
+  const implausible = implausibleFlags(live.assessment);
+  const implausibleNow = implausibleKey(implausible);
+  const [confirmedImplausible, setConfirmedImplausible] = useState<string | null>(null);
+  const [askedImplausible, setAskedImplausible] = useState(false);
+  const implausibleConfirmed = implausible.length === 0 || confirmedImplausible === implausibleNow;
+  const confirmRef = useRef<HTMLInputElement>(null);
   // Unsaved typing is kept in this browser and leaving with it asks first (issue: a reload or a
   // click on Dashboard wiped the form).
   const draft = useBrowserDraft(form, props.draftKey);
@@ -86,13 +94,20 @@ function ApparatusFormInner(props: ApparatusFormProps) {
     },
   });
 
-  const onSubmit = form.handleSubmit(
-    (values) => {
-      setFailure(null);
-      save.mutate(values);
-    },
-    () => setFailure("Some fields need attention; each is marked below."),
-  );
+  // Built at the event, not during render: the callback reads the confirmation checkbox ref.
+  const onSubmit = (event: React.FormEvent<HTMLFormElement>) =>
+    form.handleSubmit(
+      (values) => {
+        setFailure(null);
+        if (!implausibleConfirmed) {
+          setAskedImplausible(true);
+          confirmRef.current?.focus();
+          return;
+        }
+        save.mutate(values);
+      },
+      () => setFailure("Some fields need attention; each is marked below."),
+    )(event);
 
   return (
     <FormProvider {...form}>
@@ -150,6 +165,15 @@ function ApparatusFormInner(props: ApparatusFormProps) {
           <Card title="Set-up" description="Type values as on a bench sheet: 4.7 nF, 30 kV, 5 mm, 2 MΩ.">
             <SetupEditor prefix="setup" />
           </Card>
+          <ImplausibleConfirm
+            ref={confirmRef}
+            flags={implausible}
+            setup={live.setup}
+            confirmed={implausibleConfirmed}
+            onConfirmedChange={(checked) => setConfirmedImplausible(checked ? implausibleNow : null)}
+            asked={askedImplausible}
+            action="saving"
+          />
           <div className="flex flex-wrap gap-3">
             <Button type="submit" disabled={save.isPending}>
               {save.isPending

@@ -8,6 +8,7 @@ import { Alert } from "@/app/_components/alert";
 import { Button, ButtonLink } from "@/app/_components/button";
 import { Card } from "@/app/_components/card";
 import { cx } from "@/app/_components/cx";
+import { ImplausibleConfirm, implausibleFlags, implausibleKey } from "@/app/_components/hazard/implausible-confirm";
 import { QueryProvider } from "@/app/_components/hazard/query-provider";
 import { useLiveAssessment } from "@/app/_components/hazard/use-live-assessment";
 import { TierBadge } from "@/app/_components/tier-badge";
@@ -109,6 +110,20 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
   const setupText = useWatch({ control: form.control, name: "apparatus.setup" });
   const live = useLiveAssessment(setupText, rules);
   const tier = (live.assessment?.tier ?? null) as Tier | null;
+
+  // A figure that looks mistyped (engine "implausible" flag) is confirmed before the user moves on
+  // from the apparatus step or submits; changing the figure asks again.
+  const implausible = implausibleFlags(live.assessment);
+  const implausibleNow = implausibleKey(implausible);
+  const [confirmedImplausible, setConfirmedImplausible] = useState<string | null>(null);
+  const [askedImplausible, setAskedImplausible] = useState(false);
+  const implausibleConfirmed = implausible.length === 0 || confirmedImplausible === implausibleNow;
+  const confirmRef = useRef<HTMLInputElement>(null);
+  const askToConfirm = () => {
+    setAskedImplausible(true);
+    confirmRef.current?.focus();
+    confirmRef.current?.scrollIntoView({ block: "center" });
+  };
   const required = useMemo(() => (tier === null ? [] : requiredControls(tier, rules)), [tier, rules]);
   const onCreated = useCallback(
     (id: string) => {
@@ -175,7 +190,11 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
     window.history.pushState(null, "", addressOf(next));
   }
 
-  const goNext = (event: React.FormEvent) => form.handleSubmit(() => goTo(Math.min(6, step + 1) as FormStep))(event);
+  const goNext = (event: React.FormEvent) =>
+    form.handleSubmit(() => {
+      if (step === 2 && !implausibleConfirmed) return askToConfirm();
+      return goTo(Math.min(6, step + 1) as FormStep);
+    })(event);
 
   const draftNow = useWatch({ control: form.control }) as ApplicationDraft;
   const outstanding = useMemo(
@@ -186,6 +205,7 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
   const submit = (event: React.FormEvent) => form.handleSubmit(submitNow)(event);
 
   async function submitNow() {
+    if (!implausibleConfirmed) return askToConfirm();
     setSubmitError(null);
     setSubmitting(true);
     try {
@@ -407,6 +427,20 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
               />
             )}
           </Card>
+
+          {(step === 2 || (step === 6 && !implausibleConfirmed)) && implausible.length > 0 && (
+            <div className="mt-4">
+              <ImplausibleConfirm
+                ref={confirmRef}
+                flags={implausible}
+                setup={live.setup}
+                confirmed={implausibleConfirmed}
+                onConfirmedChange={(checked) => setConfirmedImplausible(checked ? implausibleNow : null)}
+                asked={askedImplausible}
+                action={step === 2 ? "moving on" : "submitting"}
+              />
+            </div>
+          )}
 
           <div aria-live="polite" className="mt-4">
             {submitError && (
