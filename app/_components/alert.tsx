@@ -17,7 +17,8 @@ type AlertProps = {
 
 const tones: Record<AlertTone, { box: string; icon: string; word: string }> = {
   info: { box: "border-ink-200 bg-ink-50 text-ink-900", icon: "text-ink-700", word: "Note" },
-  warn: { box: "border-amber-300 bg-amber-50 text-amber-950", icon: "text-amber-800", word: "Warning" },
+  // Not "Warning": the signal words DANGER, WARNING and CAUTION are kept for hazard headers (ANSI Z535.4).
+  warn: { box: "border-amber-300 bg-amber-50 text-amber-950", icon: "text-amber-800", word: "Attention" },
   error: { box: "border-red-300 bg-red-50 text-red-950", icon: "text-red-800", word: "Error" },
   success: { box: "border-emerald-300 bg-emerald-50 text-emerald-950", icon: "text-emerald-800", word: "Done" },
 };

@@ -85,7 +85,7 @@ export function flagsFor(
       code: "ignition",
       message:
         `Stored energy ${q(totals.energy_J, "J")} is at or above ${q(f.ignitionEnergy.value, "J")}: a spark can ignite ` +
-        "common flammable vapours; keep solvents and fuel gases away.",
+        "common flammable vapours (hydrogen with far less); keep solvents and fuel gases away.",
       source: f.ignitionEnergy.source,
       ref: f.ignitionEnergy.ref,
     });

@@ -65,7 +65,7 @@ export const DEFAULT_RULES: TierRules = {
     thermalEnergy: t(100, "J", "lbnl-esm-2-2-13", "thermal: capacitors above 100 J"),
     xrayVoltage: t(10_000, "V", "xray-practice", "x-rays reported from about 10 kV"),
     ozoneVoltage: t(10_000, "V", "osha-ozone", "corona from about 10 kV"),
-    ignitionEnergy: t(2e-4, "J", "min-ignition-energy", "about 0.2 mJ"),
+    ignitionEnergy: t(2e-4, "J", "min-ignition-energy", "0.2 mJ, below methane (0.28 mJ) and propane (0.25 mJ)"),
     noBleederEnergy: t(0.1, "J", "capacitor-discharge-guideline", "above 0.1 J provide a means of discharge"),
     dcThermalMaxVoltage: t(100, "V", "lbnl-esm-2-2-13", "thermal: DC below 100 V"),
     dcThermalPower: t(1000, "W", "lbnl-esm-2-2-13", "thermal: DC above 1000 W"),

@@ -437,6 +437,32 @@ describe("AC table, NFPA 70E Table 130.4(E)(a)", () => {
     expect(lookup.row).toBe(row);
   });
 
+  it.each([
+    // [volts, limited (fixed part), restricted, movable]: rows of an earlier edition's AC table as
+    // reproduced in a facilities manual, in feet and inches (converted by mathjs). The 2018 edition
+    // prints its own metric values, rounded to 0.1 m and at times up (8 ft = 2.44 m is printed 2.5 m):
+    // the engine's metres may not be shorter than the feet by more than the rounding, nor far longer
+    [40e3, "8 ft", "2 ft + 9 in", "10 ft"],
+    [60e3, "8 ft", "3 ft + 3 in", "10 ft"],
+    [100e3, "8 ft", "3 ft + 4 in", "10 ft + 8 in"],
+    [140e3, "10 ft", "3 ft + 10 in", "11 ft"],
+    [165e3, "11 ft + 8 in", "4 ft + 3 in", "11 ft + 8 in"],
+    [240e3, "13 ft", "5 ft + 8 in", "13 ft"],
+    [350e3, "15 ft + 4 in", "9 ft + 2 in", "15 ft + 4 in"],
+    [520e3, "19 ft", "11 ft + 10 in", "19 ft"],
+  ])("%s V rms reads the published row: limited %s, restricted %s", (volts, limited, restricted, movable) => {
+    const metres = (length: string) => math.evaluate(length).toNumber("m");
+    const lookup = approachDistances(volts, "ac");
+    for (const [engine, printed] of [
+      [lookup.limited_m as number, metres(limited)],
+      [lookup.restricted_m as number, metres(restricted)],
+    ]) {
+      expect(engine).toBeGreaterThanOrEqual(printed - 0.05);
+      expect(engine).toBeLessThanOrEqual(printed + 0.1);
+    }
+    expect(lookup.note).toContain(`${(Math.round(metres(movable) * 10) / 10).toFixed(2)} m for a movable conductor`);
+  });
+
   it("gives nothing below 50 V AC", () => {
     expect(approachDistances(49, "ac").limited_m).toBeNull();
   });
