@@ -96,7 +96,7 @@ describe("the six-step application form, in a real browser", () => {
       await page.getByLabel(/I have checked .*bleeder resistance: not mistyped/).check();
       await page.getByRole("button", { name: "Next: Hazard result" }).click();
       await expect.poll(() => stepHeading(page)).toBe("Step 3 of 6: Hazard result");
-      await page.getByRole("button", { name: "Back" }).click();
+      await page.getByRole("button", { name: "Back", exact: true }).click();
       await expect.poll(() => stepHeading(page)).toBe("Step 2 of 6: Apparatus");
       await page.getByLabel("Bleeder resistor across the bank").fill("100 MΩ");
       await expect.poll(() => page.getByText("Reads as 100 MΩ").isVisible()).toBe(true);
