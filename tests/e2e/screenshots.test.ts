@@ -81,8 +81,8 @@ describe.skipIf(process.env.UPDATE_SCREENSHOTS !== "1")("README screenshots from
       await page.goto(`/apparatus/${bank.id}`);
       await shoot(page, "apparatus-detail");
 
-      await page.goto(`/applications/${await applicationId("Sphere generator for the open day")}/edit`);
-      await page.getByRole("button", { name: "Next: Apparatus" }).click();
+      // The draft reopens at the step it was saved on; the address names the step to show.
+      await page.goto(`/applications/${await applicationId("Sphere generator for the open day")}/edit?step=2`);
       await expect.poll(() => page.getByTestId("step-heading").textContent()).toBe("Step 2 of 6: Apparatus");
       await expect.poll(() => page.getByTestId("live-tier").textContent()).toContain("Tier 2");
       await shoot(page, "application-step-2-live-figures");
