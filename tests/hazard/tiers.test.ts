@@ -377,6 +377,49 @@ describe("rules as data", () => {
     expect(DEFAULT_RULES.controls.every((c) => c.source === "common practice")).toBe(true);
   });
 
+  it("names the publication each corrected threshold comes from (issue 12's mis-sourced values)", () => {
+    // 30 mA rms is the rated residual current of the RCD in IEC 60364-4-41 411.3.3, not an IEC 60479-1 zone
+    expect(DEFAULT_RULES.lethal.acCurrentRms.source).toContain("IEC 60364-4-41");
+    expect(DEFAULT_RULES.lethal.acCurrentRms.source).not.toContain("60479-1");
+    // 25 mA DC is IEC 62368-1's ES2 limit, not a let-go threshold
+    expect(DEFAULT_RULES.reflex.dcCurrent.source).toContain("IEC 62368-1");
+    expect(DEFAULT_RULES.reflex.dcCurrent.source).toContain("ES2");
+    expect(DEFAULT_RULES.reflex.dcCurrent.source).not.toMatch(/let-go/i);
+    // the ±3 % belongs to IEC 60052, which every sphere-gap reason names beside the table it read
+    const gap = assessSetup({
+      sources: [cap(1e-9, 100e3, { id: "bank" })],
+      gaps: [{ sphereDiameter_m: 0.1, spacing_m: 0.01, across: ["bank"] }],
+    }).reasons.find((r) => r.criterion === "gap-ceiling");
+    expect(gap?.source).toContain("IEC 60052");
+  });
+
+  it("never points a reader at a working file: no reason, flag or threshold names one", () => {
+    // "(hazard-references §1c)" in every reason of engine 1 pointed at a document no user has
+    const internal = /hazard-references|hazard-model|§|\.md\b/;
+    const setups = [
+      setup(cap(2, 100)),
+      setup(dc(1000, 0.1), ac(400, 100)),
+      { sources: [cap(100e-6, 400, { bleeder_ohm: 100e3 })], gaps: [{ sphereDiameter_m: 0.05, spacing_m: 0.01 }] },
+      setup({ kind: "sphere-terminal", radius_m: 1, voltage_V: 900e3 }),
+      setup(cap(1e-6, 40e3, { bleeder_ohm: 0.2 })),
+    ];
+    for (const input of setups) {
+      const result = assessSetup(input);
+      for (const r of result.reasons) expect(`${r.meaning} ${r.source}`).not.toMatch(internal);
+      for (const f of result.flags) expect(`${f.message} ${f.source}`).not.toMatch(internal);
+    }
+    const { rulesVersion: _v, controls, bodyResistance, safeVoltage, ...groups } = DEFAULT_RULES;
+    const sources = [
+      bodyResistance.source,
+      safeVoltage.source,
+      ...Object.values(groups).flatMap((g) =>
+        Object.values(g as Record<string, { source: string }>).map((t) => t.source),
+      ),
+      ...controls.map((c) => c.source),
+    ];
+    for (const source of sources) expect(source).not.toMatch(internal);
+  });
+
   it("stamps the rules' version beside the engine's", () => {
     const result = assessSetup(setup(cap(1e-9, 100)));
     expect(result.rulesVersion).toBe(DEFAULT_RULES.rulesVersion);

@@ -123,7 +123,7 @@ describe("physical constants agree with mathjs", () => {
   });
 
   it("gives the isolated-sphere capacitance 4·π·ε0·r that mathjs's constants give", () => {
-    // C = 4·π·ε0·R (hazard-references §5), from mathjs's own ε0 and π
+    // C = 4·π·ε0·R of an isolated sphere (physics textbooks), from mathjs's own ε0 and π
     expectWithin(sphereCapacitance_F(1), 4 * pi * electricConstant.toNumber("F / m"), 1e-9);
   });
 });

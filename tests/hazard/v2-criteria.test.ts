@@ -41,7 +41,7 @@ describe("DC thermal flag (LBNL ESM Table 2.2.13, thermal: DC below 100 V above 
 
 describe("5 s discharge (IEC 60204-1 6.2.4, read in the text)", () => {
   it("flags 100 µF at 400 V on a 100 kΩ bleeder (19 s) and names the 26.4 kΩ that meets 5 s", () => {
-    // hazard-references §6a computed bleeder example: 100 µF, 400 V → 60 V in 5 s needs R ≤ 26.4 kΩ;
+    // 100 µF from 400 V to 60 V in 5 s needs R ≤ 26.4 kΩ (mathjs: 5 s / (100 µF · ln(400/60)));
     // 100 kΩ takes 19.0 s (mathjs below)
     const result = assessSetup(setup(cap(100e-6, 400, { id: "bank", bleeder_ohm: 100e3 })));
     expectWithin(result.timeToSafe_s as number, mathjsTime(100e3, 100e-6, 400), 1e-12);
