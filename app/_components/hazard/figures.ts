@@ -321,7 +321,10 @@ export function figureRows(a: Assessment, setup: SetupInput | null, rules: TierR
     label: "Approach distances",
     value:
       a.approach.limited_m === null && a.approach.restricted_m === null
-        ? "none listed"
+        ? // Above the last row of a table there is no published distance: never read that as "none".
+          approach.some((r) => r.value > r.threshold)
+          ? "beyond the published table: a qualified person sets them"
+          : "none listed"
         : `limited ${a.approach.limited_m === null ? "—" : q(a.approach.limited_m, "m")}, restricted ${a.approach.restricted_m === null ? "—" : q(a.approach.restricted_m, "m")}`,
     formula: "NFPA 70E approach-boundary tables, at the highest DC and AC voltages",
     inputs: [{ name: "Highest voltage", value: q(a.maxVoltage_V, "V") }],
