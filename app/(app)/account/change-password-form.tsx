@@ -7,7 +7,8 @@ import { z } from "zod";
 import { Alert } from "@/app/_components/alert";
 import { Button } from "@/app/_components/button";
 import { Field } from "@/app/_components/field";
-import { ApiError, apiFetch } from "@/lib/client/api";
+import { apiFetch } from "@/lib/client/api";
+import { applyApiIssues } from "@/lib/client/form-errors";
 import { newPasswordSchema } from "@/lib/auth/schemas";
 
 const formSchema = z
@@ -36,15 +37,7 @@ export function ChangePasswordForm() {
       reset();
       setStatus({ tone: "success", text: "Password changed. Your other sessions have been signed out." });
     } catch (e) {
-      let handled = false;
-      if (e instanceof ApiError) {
-        for (const issue of e.issues) {
-          if (issue.path === "currentPassword" || issue.path === "newPassword") {
-            setError(issue.path, { message: issue.message });
-            handled = true;
-          }
-        }
-      }
+      const handled = applyApiIssues(e, setError, { fields: ["currentPassword", "newPassword"] });
       if (!handled) setStatus({ tone: "error", text: e instanceof Error ? e.message : "Not changed." });
     }
   });

@@ -8,7 +8,8 @@ import { z } from "zod";
 import { Alert } from "@/app/_components/alert";
 import { Button } from "@/app/_components/button";
 import { Field, FieldShell, controlClasses } from "@/app/_components/field";
-import { ApiError, apiFetch } from "@/lib/client/api";
+import { apiFetch } from "@/lib/client/api";
+import { applyApiIssues } from "@/lib/client/form-errors";
 import { ROLE_OPTIONS, ROLES } from "@/lib/roles";
 
 const formSchema = z.object({
@@ -41,18 +42,7 @@ export function InviteForm({ departments }: { departments: { id: string; name: s
       reset({ email: "", name: "", roles: ["instructor"], departmentId: values.departmentId });
       router.refresh();
     } catch (e) {
-      if (e instanceof ApiError) {
-        for (const issue of e.issues) {
-          if (
-            issue.path === "email" ||
-            issue.path === "name" ||
-            issue.path === "roles" ||
-            issue.path === "departmentId"
-          ) {
-            setError(issue.path, { message: issue.message });
-          }
-        }
-      }
+      applyApiIssues(e, setError, { fields: ["email", "name", "roles", "departmentId"] });
       setStatus({ tone: "error", text: e instanceof Error ? e.message : "The invitation was not sent." });
     }
   });

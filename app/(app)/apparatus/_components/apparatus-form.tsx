@@ -17,7 +17,8 @@ import { QueryProvider } from "@/app/_components/hazard/query-provider";
 import { SetupEditor } from "@/app/_components/hazard/setup-editor";
 import { useLiveAssessment } from "@/app/_components/hazard/use-live-assessment";
 import { apparatusFormSchema, fieldNameOf, type ApparatusFormValues } from "@/lib/apparatus/form";
-import { ApiError, apiFetch } from "@/lib/client/api";
+import { apiFetch } from "@/lib/client/api";
+import { applyApiIssues } from "@/lib/client/form-errors";
 import type { TierRules } from "@/lib/hazard";
 
 type ApparatusFormProps = {
@@ -85,11 +86,7 @@ function ApparatusFormInner(props: ApparatusFormProps) {
       router.refresh();
     },
     onError: (error) => {
-      if (error instanceof ApiError) {
-        for (const issue of error.issues) {
-          form.setError(fieldNameOf(issue.path) as keyof ApparatusFormValues, { message: issue.message });
-        }
-      }
+      applyApiIssues(error, form.setError, { nameOf: fieldNameOf });
       setFailure(error.message);
     },
   });

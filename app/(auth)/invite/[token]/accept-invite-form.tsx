@@ -8,7 +8,8 @@ import { z } from "zod";
 import { Alert } from "@/app/_components/alert";
 import { Button } from "@/app/_components/button";
 import { Field } from "@/app/_components/field";
-import { ApiError, apiFetch } from "@/lib/client/api";
+import { apiFetch } from "@/lib/client/api";
+import { applyApiIssues } from "@/lib/client/form-errors";
 import { newPasswordSchema } from "@/lib/auth/schemas";
 
 const formSchema = z
@@ -33,9 +34,8 @@ export function AcceptInviteForm({ token }: { token: string }) {
       router.replace("/");
       router.refresh();
     } catch (e) {
-      const issue = e instanceof ApiError ? e.issues.find((i) => i.path === "password") : undefined;
-      if (issue) setFieldError("password", { message: issue.message });
-      else setError(e instanceof Error ? e.message : "That did not work.");
+      if (!applyApiIssues(e, setFieldError, { fields: ["password"] }))
+        setError(e instanceof Error ? e.message : "That did not work.");
     }
   });
 

@@ -6,6 +6,7 @@ import { Alert } from "@/app/_components/alert";
 import { Button } from "@/app/_components/button";
 import { Field, FieldShell, controlClasses } from "@/app/_components/field";
 import { ApiError, apiFetch } from "@/lib/client/api";
+import { issuesByField } from "@/lib/client/form-errors";
 
 // The signing panel on the application page, for whoever may act at the step the application waits
 // at. The server decides again (role, department, separation of duties, state, version); this panel
@@ -160,12 +161,7 @@ export function DecisionPanel(props: DecisionPanelProps) {
     } catch (error) {
       setPassword("");
       if (error instanceof ApiError) {
-        const next: Errors = {};
-        for (const issue of error.issues) {
-          const key = issue.path.split(/[.[]/)[0] as keyof Errors;
-          if ((ERROR_KEYS as readonly string[]).includes(key) && !next[key]) next[key] = issue.message;
-        }
-        setErrors(next);
+        setErrors(issuesByField(error, ERROR_KEYS));
         setStatus({
           tone: "error",
           text: error.status === 409 ? `${error.message} Reload the page to see the current state.` : error.message,

@@ -15,6 +15,7 @@ import { TierBadge } from "@/app/_components/tier-badge";
 import { fieldNameOf } from "@/lib/apparatus/form";
 import { draftToContent } from "@/lib/applications/draft";
 import { ApiError, apiFetch, type FieldIssue } from "@/lib/client/api";
+import { applyApiIssues } from "@/lib/client/form-errors";
 import { requiredControls, type Tier, type TierRules } from "@/lib/hazard";
 import {
   FORM_STEPS,
@@ -227,9 +228,7 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
       setSubmitted(res.application);
     } catch (error) {
       if (error instanceof ApiError) {
-        for (const issue of error.issues) {
-          form.setError(fieldNameOf(issue.path) as keyof ApplicationDraft, { message: issue.message });
-        }
+        applyApiIssues(error, form.setError, { nameOf: fieldNameOf });
         setSubmitError({ message: error.message, issues: error.issues });
       } else {
         setSubmitError({ message: "The application was not submitted. Try again.", issues: [] });

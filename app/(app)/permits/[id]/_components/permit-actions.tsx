@@ -6,6 +6,7 @@ import { Alert } from "@/app/_components/alert";
 import { Button } from "@/app/_components/button";
 import { Field, FieldShell, controlClasses } from "@/app/_components/field";
 import { ApiError, apiFetch } from "@/lib/client/api";
+import { issuesByField } from "@/lib/client/form-errors";
 
 /** The holder starts a renewal: a new draft prefilled from this permit, opened in the form. */
 export function RenewButton({ permitId }: { permitId: string }) {
@@ -58,12 +59,7 @@ export function RevokeForm({ permitId, version }: { permitId: string; version: n
       router.refresh();
     } catch (e) {
       setPassword("");
-      if (e instanceof ApiError) {
-        const next: typeof errors = {};
-        for (const issue of e.issues)
-          if (issue.path === "reason" || issue.path === "password") next[issue.path] = issue.message;
-        setErrors(next);
-      }
+      if (e instanceof ApiError) setErrors(issuesByField(e, ["reason", "password"]));
       setStatus({ tone: "error", text: e instanceof Error ? e.message : "The permit was not revoked." });
     } finally {
       setBusy(false);
