@@ -9,7 +9,7 @@ import { writeAudit } from "@/lib/audit";
 import { createApparatus } from "@/lib/apparatus/actions";
 import { setupToText } from "@/lib/apparatus/setup-text";
 import { createDraft, saveDraft, submitApplication, withdrawApplication } from "@/lib/applications/actions";
-import type { CurrentUser } from "@/lib/auth/guards";
+import { currentUserColumns, type CurrentUser } from "@/lib/auth/current-user";
 import { assessSetup, requiredControls, type SetupInput } from "@/lib/hazard";
 import { revokePermit } from "@/lib/permits/revoke";
 import { decide } from "@/lib/review/decide";
@@ -140,16 +140,7 @@ function draftFor(options: {
 }
 
 async function asCurrentUser(email: string): Promise<CurrentUser> {
-  const [u] = await getDb()
-    .select({
-      id: users.id,
-      email: users.email,
-      name: users.name,
-      roles: users.roles,
-      departmentId: users.departmentId,
-    })
-    .from(users)
-    .where(eq(users.email, email));
+  const [u] = await getDb().select(currentUserColumns).from(users).where(eq(users.email, email));
   if (!u) throw new Error(`demo user ${email} is missing`);
   return u;
 }

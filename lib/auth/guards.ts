@@ -4,20 +4,15 @@ import { redirect } from "next/navigation";
 import { cache } from "react";
 import { auth } from "@/auth";
 import { db } from "@/db";
-import { users, type Role } from "@/db/schema";
+import { users } from "@/db/schema";
 import { AppError, forbidden, unauthenticated } from "@/lib/errors";
+import { currentUserColumns, type CurrentUser } from "./current-user";
 import { rolesHave, type Permission } from "./permissions";
 
 // The data-access gate. Every route handler, server action and server component that reads or
 // writes data calls one of these. proxy.ts only redirects signed-out visitors and is never relied on.
 
-export type CurrentUser = {
-  id: string;
-  email: string;
-  name: string;
-  roles: Role[];
-  departmentId: string | null;
-};
+export type { CurrentUser };
 
 /**
  * The signed-in user, read from the database on every request (cached for the request), so that a
@@ -30,11 +25,7 @@ export const getCurrentUser = cache(async (): Promise<CurrentUser | null> => {
   const sessionVersion = session?.sv;
   const [row] = await db
     .select({
-      id: users.id,
-      email: users.email,
-      name: users.name,
-      roles: users.roles,
-      departmentId: users.departmentId,
+      ...currentUserColumns,
       sessionVersion: users.sessionVersion,
       disabledAt: users.disabledAt,
     })
@@ -43,7 +34,8 @@ export const getCurrentUser = cache(async (): Promise<CurrentUser | null> => {
     .limit(1);
   if (!row || row.disabledAt) return null;
   if (sessionVersion !== row.sessionVersion) return null;
-  return { id: row.id, email: row.email, name: row.name, roles: row.roles, departmentId: row.departmentId };
+  const { sessionVersion: _version, disabledAt: _disabled, ...user } = row;
+  return user;
 });
 
 export function can(user: Pick<CurrentUser, "roles"> | null, permission: Permission): boolean {
