@@ -6,11 +6,12 @@ import { DataTable, type Column } from "@/app/_components/data-table";
 import { controlClasses } from "@/app/_components/field";
 import { formatDate, isoDate } from "@/app/_components/format";
 import { PageHeader } from "@/app/_components/page-header";
-import { TIERS, type Tier } from "@/app/_components/tier";
+import type { Tier } from "@/app/_components/tier";
+import { TierFilter } from "@/app/_components/tier-filter";
 import { TierBadge } from "@/app/_components/tier-badge";
 import { listApparatus, type ApparatusListRow } from "@/lib/apparatus/queries";
 import { can, requirePageUser } from "@/lib/auth/guards";
-import { formatQuantity, TIER_LABELS } from "@/lib/hazard";
+import { formatQuantity } from "@/lib/hazard";
 import { apparatusListQuerySchema } from "@/lib/apparatus/schemas";
 import { Pager, SortLink } from "@/app/_components/list-controls";
 
@@ -117,19 +118,7 @@ export default async function ApparatusListPage({ searchParams }: PageProps) {
             <label htmlFor="apparatus-tier" className="text-sm font-medium text-stone-800">
               Tier
             </label>
-            <select
-              id="apparatus-tier"
-              name="tier"
-              defaultValue={query.tier ?? ""}
-              className={`${controlClasses} mt-1`}
-            >
-              <option value="">Any tier</option>
-              {TIERS.map((t) => (
-                <option key={t} value={t}>
-                  Tier {t} · {TIER_LABELS[t]}
-                </option>
-              ))}
-            </select>
+            <TierFilter id="apparatus-tier" value={query.tier} named />
           </div>
           <div className="flex flex-col">
             <label htmlFor="apparatus-owner" className="text-sm font-medium text-stone-800">

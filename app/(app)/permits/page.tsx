@@ -8,7 +8,8 @@ import { controlClasses } from "@/app/_components/field";
 import { formatDate } from "@/app/_components/format";
 import { PageHeader } from "@/app/_components/page-header";
 import { StateBadge } from "@/app/_components/state-badge";
-import { TIERS, isTier } from "@/app/_components/tier";
+import { isTier } from "@/app/_components/tier";
+import { TierFilter } from "@/app/_components/tier-filter";
 import { TierBadge } from "@/app/_components/tier-badge";
 import { can, requirePageUser } from "@/lib/auth/guards";
 import { daysFromTo } from "@/lib/permits/dates";
@@ -128,14 +129,7 @@ export default async function PermitsPage({
           </label>
           <label className="flex flex-col text-sm font-medium text-stone-800">
             Tier
-            <select name="tier" defaultValue={filters.tier ?? ""} className={`${controlClasses} mt-1`}>
-              <option value="">Any tier</option>
-              {TIERS.map((t) => (
-                <option key={t} value={t}>
-                  Tier {t}
-                </option>
-              ))}
-            </select>
+            <TierFilter value={filters.tier} />
           </label>
           <button type="submit" className={buttonClasses()}>
             Filter

@@ -9,6 +9,7 @@ import { formatDate, isoDate } from "@/app/_components/format";
 import { PageHeader } from "@/app/_components/page-header";
 import { StateBadge } from "@/app/_components/state-badge";
 import { TIERS, isTier } from "@/app/_components/tier";
+import { TierFilter } from "@/app/_components/tier-filter";
 import { TierBadge } from "@/app/_components/tier-badge";
 import { can, requirePageUser } from "@/lib/auth/guards";
 import { listQueue, queueCountsByTier, type QueueRow } from "@/lib/review/queries";
@@ -175,14 +176,7 @@ export default async function ReviewQueuePage({
           </label>
           <label className="flex flex-col text-sm font-medium text-stone-800">
             Tier
-            <select name="tier" defaultValue={query.tier ?? ""} className={`${controlClasses} mt-1`}>
-              <option value="">Any tier</option>
-              {TIERS.map((t) => (
-                <option key={t} value={t}>
-                  Tier {t}
-                </option>
-              ))}
-            </select>
+            <TierFilter value={query.tier} />
           </label>
           {seesAll && (
             <label className="flex flex-col text-sm font-medium text-stone-800">
