@@ -23,6 +23,7 @@ export {
 export {
   REFERENCES,
   citation,
+  readableAssessment,
   readableSource,
   referenceAnchor,
   referenceById,

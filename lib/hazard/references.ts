@@ -255,3 +255,29 @@ export function readableSource(source: string): string {
     .replace(/\s*§\s*\d+[a-z]?\b/g, "")
     .trim();
 }
+
+type ReadableParts = {
+  reasons: ReadonlyArray<{ source: string; meaning: string }>;
+  flags: ReadonlyArray<{ source: string; message: string }>;
+};
+
+/**
+ * An assessment as a reader gets it: the stored snapshot is never rewritten, but the pointers engine 1
+ * put into its text ("(hazard-references §1c)") are dropped on the way out, as the screens do. Text
+ * written by engine 2 has none and passes unchanged.
+ */
+export function readableAssessment<T extends ReadableParts>(assessment: T): T {
+  return {
+    ...assessment,
+    reasons: assessment.reasons.map((r) => ({
+      ...r,
+      source: readableSource(r.source),
+      meaning: readableSource(r.meaning),
+    })),
+    flags: assessment.flags.map((f) => ({
+      ...f,
+      source: readableSource(f.source),
+      message: readableSource(f.message),
+    })),
+  };
+}

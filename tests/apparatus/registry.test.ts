@@ -18,6 +18,41 @@ async function register(cookie: string, body: Record<string, unknown>) {
 }
 
 describe("POST /api/apparatus and PATCH /api/apparatus/[id]", () => {
+  it("answers a revision assessed by engine 1 without the internal file its sources named", async () => {
+    // Engine 1 wrote "(hazard-references §1a)" into every source, a document no reader has. The
+    // stored snapshot is kept as it was; GET /api/apparatus/[id] drops the pointer, keeping the publication.
+    const set = await createRoleSet();
+    const cookie = await signIn(set.instructor.email);
+    const created = await register(cookie, { name: "Jar pair, engine 1", room: "B12", notes: "", setup: TIER2 });
+    expect(created.status, created.text).toBe(201);
+    const id = created.json!.apparatus.id;
+    const fresh = assessSetup(TIER2);
+    const old = {
+      ...fresh,
+      engineVersion: "1.2.0",
+      reasons: fresh.reasons.map(({ ref: _ref, ...r }) => ({
+        ...r,
+        source: "LBNL Electrical Safety Manual, Table 2.2.13 (hazard-references §1a)",
+      })),
+      flags: fresh.flags.map(({ ref: _ref, ...f }) => ({
+        ...f,
+        source: "capacitor discharge guideline (hazard-references §1c)",
+      })),
+    };
+    await getDb().update(apparatusRevisions).set({ assessment: old }).where(eq(apparatusRevisions.apparatusId, id));
+    const detail = await http(`/api/apparatus/${id}`, { cookie });
+    expect(detail.status, detail.text).toBe(200);
+    const text = JSON.stringify(detail.json!.apparatus.current.assessment);
+    expect(text).not.toMatch(/hazard-references|§/);
+    expect(text).toContain("LBNL Electrical Safety Manual, Table 2.2.13");
+    // the stored snapshot itself is unchanged
+    const [row] = await getDb()
+      .select({ assessment: apparatusRevisions.assessment })
+      .from(apparatusRevisions)
+      .where(eq(apparatusRevisions.apparatusId, id));
+    expect(JSON.stringify(row.assessment)).toContain("hazard-references §1a");
+  });
+
   it("stores a figure that looks mistyped once the form has had it confirmed: the server does not refuse it", async () => {
     // 200 mΩ across a 40 kV bank would dissipate (40 kV)² / 0.2 Ω = 8 GW: the engine flags it as
     // implausible and the form asks the user to confirm; an unusual part can be real, so the API

@@ -4,12 +4,20 @@
 import { updateApparatus } from "@/lib/apparatus/actions";
 import { getApparatus } from "@/lib/apparatus/queries";
 import { idParam } from "@/lib/applications/params";
+import { readableAssessment, type Assessment } from "@/lib/hazard";
 import { route } from "@/lib/http/route";
 import { apparatusUpdateSchema } from "@/lib/apparatus/schemas";
 
-export const GET = route({ access: "apparatus.read" }, async ({ user, params }) => ({
-  apparatus: await getApparatus(user, idParam(params.id, "That apparatus")),
-}));
+export const GET = route({ access: "apparatus.read" }, async ({ user, params }) => {
+  const found = await getApparatus(user, idParam(params.id, "That apparatus"));
+  // A revision assessed by engine 1 named an internal working file in its sources; the answer drops
+  // those pointers (the stored snapshot stays as it was signed).
+  const current = found.current && {
+    ...found.current,
+    assessment: readableAssessment(found.current.assessment as Assessment),
+  };
+  return { apparatus: { ...found, current } };
+});
 
 export const PATCH = route(
   { access: "apparatus.write", body: apparatusUpdateSchema },
