@@ -2,6 +2,7 @@ import { describe, expect, it } from "vitest";
 import {
   assessSetup,
   DEFAULT_RULES,
+  readableAssessment,
   requiredControls,
   TIER_LABELS,
   type EnergySource,
@@ -418,6 +419,19 @@ describe("rules as data", () => {
       ...controls.map((c) => c.source),
     ];
     for (const source of sources) expect(source).not.toMatch(internal);
+  });
+
+  it("reads an engine 1 snapshot without its pointers, and passes engine 2's text unchanged", () => {
+    const fresh = assessSetup(setup(cap(2, 100)));
+    expect(readableAssessment(fresh)).toEqual(fresh);
+    const old = {
+      ...fresh,
+      reasons: fresh.reasons.map((r) => ({ ...r, source: "LBNL Electrical Safety Manual (hazard-references §1a)" })),
+      flags: fresh.flags.map((f) => ({ ...f, source: "hazard-references §6a, §1c" })),
+    };
+    const read = readableAssessment(old);
+    for (const r of read.reasons) expect(r.source).toBe("LBNL Electrical Safety Manual");
+    for (const f of read.flags) expect(f.source).not.toMatch(/hazard-references|§/);
   });
 
   it("stamps the rules' version beside the engine's", () => {

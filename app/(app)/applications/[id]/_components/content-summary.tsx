@@ -1,6 +1,6 @@
 import { Card } from "@/app/_components/card";
 import { Stat, StatList } from "@/app/_components/stat";
-import type { Assessment } from "@/lib/hazard";
+import { readableAssessment, type Assessment } from "@/lib/hazard";
 import {
   audienceLabel,
   eventKindLabel,
@@ -107,7 +107,8 @@ export function ContentSummary({ applicationId, content, assessment, revision }:
         </StatList>
         <h3 className="mt-4 text-sm font-semibold text-stone-900">Why this tier</h3>
         <ul className="mt-1 flex flex-col gap-2">
-          {assessment.reasons.map((r, i) => (
+          {/* A revision assessed by engine 1 named an internal working file in its sources: dropped here. */}
+          {readableAssessment(assessment).reasons.map((r, i) => (
             <li key={`${r.criterion}-${i}`} className="text-sm">
               <p className="text-stone-900">{r.meaning}</p>
               <p className="text-xs text-stone-600">Source: {r.source}</p>
@@ -118,7 +119,7 @@ export function ContentSummary({ applicationId, content, assessment, revision }:
           <>
             <h3 className="mt-4 text-sm font-semibold text-stone-900">Also note</h3>
             <ul className="mt-1 flex flex-col gap-2">
-              {assessment.flags.map((f) => (
+              {readableAssessment(assessment).flags.map((f) => (
                 <li key={f.code} className="text-sm">
                   <p className="text-stone-900">{f.message}</p>
                   <p className="text-xs text-stone-600">Source: {f.source}</p>
