@@ -578,7 +578,16 @@ async function firstLoadJs(
 // ---------------------------------------------------------------------------------------------
 // PDF renders (a process of its own, with --expose-gc)
 
-type PdfFigures = { renders: number; medianMs: number; p95Ms: number; rssGrowthMb: number; heapGrowthMb: number };
+type PdfFigures = {
+  renders: number;
+  warmRenders?: number;
+  medianMs: number;
+  p95Ms: number;
+  rssGrowthMb: number;
+  heapGrowthMb: number;
+  heapTotalGrowthMb?: number;
+  externalGrowthMb?: number;
+};
 
 function pdfFigures(renders: number): PdfFigures {
   const result = spawnSync(bin("tsx"), ["scripts/bench/pdf.ts", String(renders), "--json"], {
