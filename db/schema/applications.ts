@@ -79,6 +79,12 @@ export const applications = pgTable(
     index("application_applicant_idx").on(t.applicantId, t.updatedAt),
     index("application_queue_idx").on(t.state, t.waitingSince),
     index("application_department_idx").on(t.departmentId, t.state),
+    // The review queue's order over waiting applications only (lib/review/queries.ts listQueue): an
+    // index on (state, waiting_since) gives two ranges for the two waiting states, which PostgreSQL
+    // sorts together; this one is read in order and stops after a page.
+    index("application_waiting_idx")
+      .on(t.waitingSince.asc().nullsLast(), t.seq)
+      .where(sql`${t.state} IN ('submitted', 'in_review')`),
     check("application_tier_range", sql`${t.tier} IS NULL OR ${t.tier} BETWEEN 0 AND 4`),
   ],
 );

@@ -71,6 +71,8 @@ export const permits = pgTable(
     index("permit_valid_to_idx").on(t.state, t.validTo),
     // The permit list's order (lib/permits/queries.ts listPermits).
     index("permit_list_order_idx").on(t.validTo, t.issuedAt.desc(), t.id),
+    // The list's count with a tier filter, read from the index alone.
+    index("permit_tier_state_idx").on(t.tier, t.state, t.validTo),
     check("permit_window", sql`${t.validFrom} <= ${t.validTo}`),
   ],
 );

@@ -27,6 +27,10 @@ import { canReadApplication } from "@/lib/applications/access";
 export const QUEUE_STATES = ["submitted", "in_review"] as const satisfies readonly ApplicationState[];
 export const QUEUE_PAGE_SIZE = 25;
 
+// Waiting applications, written as literals rather than bound parameters so that PostgreSQL can prove
+// the partial index application_waiting_idx (same predicate) applies to every plan it makes.
+const WAITING = sql.raw(`"application"."state" IN (${QUEUE_STATES.map((s) => `'${s}'`).join(", ")})`);
+
 export type QueueFilters = {
   tier?: number;
   departmentId?: string;
@@ -99,7 +103,7 @@ export async function listQueue(user: CurrentUser, filters: QueueFilters = {}, n
   const role = pendingRoleSql(await allChainRules());
   const actionable = actionableBy(user, role);
   const where = and(
-    inArray(applications.state, [...QUEUE_STATES]),
+    WAITING,
     queueScope(user),
     (filters.scope ?? "mine") === "mine" ? actionable : undefined,
     filters.tier !== undefined ? eq(applications.tier, filters.tier) : undefined,
@@ -146,7 +150,7 @@ export async function queueCountsByTier(user: CurrentUser): Promise<Record<0 | 1
   const rows = await db
     .select({ tier: applications.tier, n: count() })
     .from(applications)
-    .where(and(inArray(applications.state, [...QUEUE_STATES]), queueScope(user), actionableBy(user, role)))
+    .where(and(WAITING, queueScope(user), actionableBy(user, role)))
     .groupBy(applications.tier);
   for (const row of rows) {
     if (row.tier !== null && row.tier in counts) counts[row.tier as 0 | 1 | 2 | 3 | 4] = Number(row.n);
