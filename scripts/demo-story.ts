@@ -195,7 +195,12 @@ export async function seedStory(password: string): Promise<boolean> {
     return { id: app.id, version: after.version };
   }
   const rules = (await currentChainRules()).rules;
-  const requirementIds = (tier: number) => tierChain(rules, tier).requirements.map((r) => r.id);
+  // The tier's requirements and every audience control (an approver confirming one that does not apply
+  // to the event changes nothing; the permit prints only those that do).
+  const requirementIds = (tier: number) => [
+    ...tierChain(rules, tier).requirements.map((r) => r.id),
+    ...rules.audience.map((r) => r.id),
+  ];
   async function approveThrough(
     tier: 0 | 1 | 2 | 3 | 4,
     title: string,
@@ -207,7 +212,13 @@ export async function seedStory(password: string): Promise<boolean> {
       await decide(
         reviewer,
         app.id,
-        { kind: "approve", expectedVersion: app.version, password, confirmedRequirements: [], extraConditions: [] },
+        {
+          kind: "approve",
+          expectedVersion: app.version,
+          password,
+          confirmedRequirements: requirementIds(1),
+          extraConditions: [],
+        },
         signing,
       );
       return app.id;

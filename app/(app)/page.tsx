@@ -14,7 +14,7 @@ import type { Tier } from "@/app/_components/tier";
 import { TierBadge } from "@/app/_components/tier-badge";
 import { myDashboardApplications } from "@/lib/applications/queries";
 import { can, requirePageUser } from "@/lib/auth/guards";
-import { expiringPermits } from "@/lib/permits/queries";
+import { expiringPermits, institutionTimeZone } from "@/lib/permits/queries";
 import { listQueue, queueCountsByTier } from "@/lib/review/queries";
 import { adminOverview } from "@/lib/users/queries";
 
@@ -29,12 +29,13 @@ export default async function DashboardPage() {
   const reviews = can(user, "application.review");
   const administers = can(user, "admin.users");
 
-  const [mine, expiring, counts, oldest, overview] = await Promise.all([
+  const [mine, expiring, counts, oldest, overview, timeZone] = await Promise.all([
     applies ? myDashboardApplications(user) : null,
     expiringPermits(user, 30),
     reviews ? queueCountsByTier(user) : null,
     reviews ? listQueue(user, { scope: "mine" }) : null,
     administers ? adminOverview(user) : null,
+    institutionTimeZone(),
   ]);
   const firstWaiting = oldest?.rows[0];
 
@@ -64,7 +65,7 @@ export default async function DashboardPage() {
                   A-{firstWaiting.seq} · {firstWaiting.title || "Untitled application"}
                 </Link>{" "}
                 from {firstWaiting.applicantName} ({firstWaiting.departmentName}), waiting since{" "}
-                {firstWaiting.waitingSince ? formatDateTime(firstWaiting.waitingSince) : "—"}.
+                {firstWaiting.waitingSince ? formatDateTime(firstWaiting.waitingSince, timeZone) : "—"}.
               </p>
               {firstWaiting.tier !== null && <TierBadge tier={firstWaiting.tier as Tier} className="mt-2" />}
             </Card>

@@ -1,7 +1,6 @@
-import { isoDate } from "@/app/_components/format";
+import { formatSignedAt, isoDate } from "@/app/_components/format";
 import { DECISION_LABELS } from "@/lib/signing/meanings";
 import type { DecisionKind } from "@/db/schema";
-import { formatUtc } from "./utc";
 
 export type SignatureItem = {
   id: string;
@@ -16,13 +15,16 @@ export type SignatureItem = {
   revision?: number;
 };
 
-/** Signed decisions as a record: who (printed name and role), what it means, when (UTC), over which content. */
+/** Signed decisions as a record: who (printed name and role), what it means, when (institution zone and UTC), over which content. */
 export function SignatureList({
   items,
   empty = "No signatures yet.",
+  timeZone,
 }: {
   items: readonly SignatureItem[];
   empty?: string;
+  /** The institution's time zone (IANA name). */
+  timeZone: string;
 }) {
   if (items.length === 0) return <p className="text-sm text-stone-600">{empty}</p>;
   return (
@@ -42,7 +44,7 @@ export function SignatureList({
             <p className="mt-1 border-l-2 border-stone-300 pl-2 whitespace-pre-line text-stone-800">{s.comment}</p>
           )}
           <p className="mt-1 text-xs text-stone-600">
-            <time dateTime={isoDate(s.signedAt)}>{formatUtc(s.signedAt)}</time>
+            <time dateTime={isoDate(s.signedAt)}>{formatSignedAt(s.signedAt, timeZone)}</time>
             <span className="mx-1">·</span>
             <span>
               SHA-256 <span className="figure break-all">{s.contentHash}</span>

@@ -1,10 +1,4 @@
-// Signatures are shown in UTC (security.md: "the UTC time"), the same on every screen whatever the
-// server's or the reader's zone: "2026-03-12 14:05:09 UTC".
-
-export function formatUtc(value: Date | string): string {
-  const d = value instanceof Date ? value : new Date(value);
-  return `${d.toISOString().slice(0, 19).replace("T", " ")} UTC`;
-}
+// Waiting times of the review queue. (Times of day are shown by format.ts in the institution's zone.)
 
 /** Whole days waited since `since` (0 on the first day). */
 export function daysWaiting(since: Date | string | null, now: Date = new Date()): number | null {

@@ -7,7 +7,7 @@ import { queueMail } from "@/lib/outbox";
 import { defaultValidity, eventDaysOf, widensEvent } from "@/lib/permits/dates";
 import { issuePermit } from "@/lib/permits/actions";
 import { institutionToday } from "@/lib/permits/queries";
-import { tierChain } from "@/lib/rules/chain";
+import { approvalRequirements, audienceFactsOf, tierChain, type ChainRules } from "@/lib/rules/chain";
 import { chainRulesFor, currentChainRules } from "@/lib/rules/queries";
 import { activeEmails } from "@/lib/users/queries";
 import { transition } from "./state";
@@ -44,12 +44,13 @@ export async function afterSubmit(
   const rules = await chainRulesFor(current.chainRulesVersion, tx);
   const chain = tierChain(rules, current.tier);
   if (chain.steps.length > 0) return { application: current, permit: null };
-  return selfCertify(tx, current, chain.validityDays, actor, now);
+  return selfCertify(tx, current, rules, chain.validityDays, actor, now);
 }
 
 async function selfCertify(
   tx: Tx,
   application: Application,
+  rules: ChainRules,
   validityDays: number,
   actor: { id: string; name: string },
   now: Date,
@@ -86,7 +87,9 @@ async function selfCertify(
     validFrom,
     validTo,
     validityReason,
-    conditions: [],
+    // Nobody signs a signerless tier, so what the rules ask (the tier's and the audience's) is printed
+    // as the permit's conditions for the holder to meet.
+    conditions: approvalRequirements(rules, revision.tier, audienceFactsOf(revision.content)).map((r) => r.text),
     today,
     actor,
     now,

@@ -36,11 +36,30 @@ export function printAudience(audienceLabel: string, audienceSize: number): stri
   return `${audienceSize} ${audienceLabel.toLowerCase()}`;
 }
 
-/** "2026-03-12 14:05 UTC": signatures are printed in UTC so every reader sees the same time. */
-export function printUtc(iso: string): string {
+/**
+ * "2026-03-12 15:05 CET": a time printed in the institution's zone (the one its permit days are
+ * counted in), the zone named as the reader's clock shows it ("GMT+2" where a zone has no common
+ * abbreviation). An unknown zone prints in UTC.
+ */
+export function printTime(iso: string, timeZone: string): string {
   const date = new Date(iso);
-  const pad = (n: number) => String(n).padStart(2, "0");
-  return `${date.getUTCFullYear()}-${pad(date.getUTCMonth() + 1)}-${pad(date.getUTCDate())} ${pad(date.getUTCHours())}:${pad(date.getUTCMinutes())} UTC`;
+  let parts: Intl.DateTimeFormatPart[];
+  try {
+    parts = new Intl.DateTimeFormat("en-GB", {
+      timeZone,
+      year: "numeric",
+      month: "2-digit",
+      day: "2-digit",
+      hour: "2-digit",
+      minute: "2-digit",
+      hourCycle: "h23",
+      timeZoneName: "short",
+    }).formatToParts(date);
+  } catch {
+    return printTime(iso, "UTC");
+  }
+  const part = (type: Intl.DateTimeFormatPartTypes) => parts.find((p) => p.type === type)?.value ?? "";
+  return `${part("year")}-${part("month")}-${part("day")} ${part("hour")}:${part("minute")} ${part("timeZoneName")}`;
 }
 
 /** Safe voltage of the bleeder calculation (IEC 60204-1 6.2.4, as in lib/hazard). */

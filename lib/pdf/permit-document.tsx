@@ -8,7 +8,7 @@ import {
   printAudience,
   printDay,
   printDays,
-  printUtc,
+  printTime,
   printedFlags,
   sourceLines,
   tierFigures,
@@ -364,7 +364,7 @@ export function PermitDocument({ data, size, qr }: { data: PrintData; size: Pape
                 <Text style={{ width: "18%", fontSize: 9.5, color: INK.body }}>{sig.role}</Text>
                 <Text style={{ width: "33%", fontSize: 9.5, color: INK.body, paddingRight: 6 }}>{sig.meaning}</Text>
                 <Text style={[s.mono, { width: "22%", fontSize: 9, color: INK.text, textAlign: "right" }]}>
-                  {printUtc(sig.signedAt)}
+                  {printTime(sig.signedAt, data.institution.timeZone)}
                 </Text>
               </View>
             ))
@@ -373,7 +373,7 @@ export function PermitDocument({ data, size, qr }: { data: PrintData; size: Pape
             <Text style={{ fontSize: 8, color: INK.muted, width: 92 }}>Verification code</Text>
             <Text style={[s.mono, { fontSize: 8.5, color: INK.text }]}>{permit.verificationCode}</Text>
             <Text style={{ fontSize: 8, color: INK.muted, marginLeft: "auto" }}>
-              Issued {printUtc(permit.issuedAt)}
+              Issued {printTime(permit.issuedAt, data.institution.timeZone)}
             </Text>
           </View>
           <View style={{ flexDirection: "row" }}>

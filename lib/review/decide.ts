@@ -28,7 +28,7 @@ import {
 } from "@/lib/permits/dates";
 import { issuePermit } from "@/lib/permits/actions";
 import { institutionToday } from "@/lib/permits/queries";
-import { STEP_ROLE_LABELS, tierChain, type ChainRules } from "@/lib/rules/chain";
+import { approvalRequirements, audienceFactsOf, STEP_ROLE_LABELS, tierChain, type ChainRules } from "@/lib/rules/chain";
 import { chainRulesFor } from "@/lib/rules/queries";
 import { revisionHash } from "@/lib/signing/canonical";
 import { DECISION_MEANINGS } from "@/lib/signing/meanings";
@@ -182,7 +182,9 @@ export async function decide(
   let today = "";
   if (body.kind === "approve") {
     const confirmed = new Set(body.confirmedRequirements);
-    const missing = chain.requirements.filter((r) => !confirmed.has(r.id));
+    // The tier's requirements and those the event's audience adds (rules.audience).
+    const requirements = approvalRequirements(rules, revision.tier, audienceFactsOf(revision.content));
+    const missing = requirements.filter((r) => !confirmed.has(r.id));
     if (missing.length > 0) {
       throw invalidField(
         "confirmedRequirements",
@@ -191,7 +193,7 @@ export async function decide(
     }
     today = await institutionToday(now);
     window = validityWindow(body, chain.validityDays, today, eventDaysOf(revision.content));
-    conditions = [...chain.requirements.map((r) => r.text), ...body.extraConditions];
+    conditions = [...requirements.map((r) => r.text), ...body.extraConditions];
   }
   if (body.kind === "approve" || body.kind === "reject") await verifySignerPassword(actor, body.password, ctx);
 

@@ -4,6 +4,7 @@
 
 import { formatQuantity, TIER_LABELS, type Assessment, type Tier } from "@/lib/hazard";
 import { AUDIENCE_LABELS, EVENT_KIND_LABELS } from "@/lib/applications/schemas";
+import { SOURCE_KIND_LABELS } from "@/lib/apparatus/schemas";
 
 const UNIT_SUFFIXES: ReadonlyArray<readonly [string, string]> = [
   ["_ohm", "Ω"],
@@ -47,7 +48,20 @@ const FIELD_LABELS: Record<string, string> = {
   temperature_C: "Air temperature",
   bodyResistance_ohm: "Body model resistance",
   vacuumDevice: "Vacuum device driven",
+  across: "Connected across",
+  resistance_ohm: "Resistance",
 };
+
+/** Stored codes shown as the words the form uses (a reviewer read "sphere-terminal → custom-capacitance"). */
+const VALUE_LABELS: Record<string, Record<string, string>> = {
+  kind: SOURCE_KIND_LABELS,
+  arrangement: { parallel: "Parallel", series: "Series" },
+};
+
+/** A source kind as the form names it ("sphere-terminal" → "Sphere terminal"). */
+export function sourceKindLabel(kind: unknown): string {
+  return SOURCE_KIND_LABELS[kind as keyof typeof SOURCE_KIND_LABELS] ?? String(kind ?? "—");
+}
 
 export function fieldLabel(field: string): string {
   return (
@@ -67,7 +81,8 @@ export function formatFieldValue(field: string, value: unknown): string {
     const unit = unitOfField(field);
     return unit ? formatQuantity(value, unit) : String(value);
   }
-  if (typeof value === "string") return value;
+  if (typeof value === "string") return VALUE_LABELS[field]?.[value] ?? value;
+  if (Array.isArray(value)) return value.length ? value.map(String).join(", ") : "nothing";
   return JSON.stringify(value);
 }
 

@@ -24,7 +24,18 @@ export type TierChain = {
   requirements: Requirement[];
 };
 
-export type ChainRules = { tiers: [TierChain, TierChain, TierChain, TierChain, TierChain] };
+/**
+ * A control the event's audience calls for, whatever the set-up's tier (issue 20: 80 members of the
+ * public added nothing beyond the tier's controls). It applies from `minTier` up when the audience
+ * includes members of the public (`public`) or numbers at least `minSize` people (null: size alone never
+ * triggers it). The final approver confirms it like a tier requirement; it is printed as a condition.
+ */
+export type AudienceRule = Requirement & { public: boolean; minSize: number | null; minTier: number };
+
+export type ChainRules = {
+  tiers: [TierChain, TierChain, TierChain, TierChain, TierChain];
+  audience: AudienceRule[];
+};
 
 export const BUILT_IN_CHAIN_VERSION = 0;
 
@@ -33,8 +44,42 @@ const TIER_3_REQUIREMENTS: Requirement[] = [
   { id: "barrier-at-limited-approach", text: "A barrier stands at the limited approach distance." },
 ];
 
+// What a safety office expects at a public demonstration (common practice; the 2 m floor and the 50
+// people are this product's defaults, for the institution to change). Tier 0 (touch-safe) calls for none.
+export const DEFAULT_AUDIENCE_RULES: AudienceRule[] = [
+  {
+    id: "front-row-distance",
+    text: "The front row stays behind a marked line at the limited approach distance, and never nearer than 2 m to the apparatus.",
+    public: true,
+    minSize: 50,
+    minTier: 1,
+  },
+  {
+    id: "audience-steward",
+    text: "A steward other than the operator watches the audience whenever the set-up is energised.",
+    public: true,
+    minSize: 50,
+    minTier: 1,
+  },
+  {
+    id: "first-aider-present",
+    text: "A trained first aider is present, and the way to the nearest defibrillator is known.",
+    public: true,
+    minSize: 50,
+    minTier: 1,
+  },
+  {
+    id: "audience-briefing",
+    text: "The audience is told before the first demonstration where to stay, what they will see and hear, and not to touch the apparatus.",
+    public: true,
+    minSize: null,
+    minTier: 1,
+  },
+];
+
 // product.md, "Default rules".
 export const DEFAULT_CHAIN_RULES: ChainRules = {
+  audience: DEFAULT_AUDIENCE_RULES,
   tiers: [
     { steps: [], validityDays: 365, requirements: [] },
     { steps: ["reviewer"], validityDays: 365, requirements: [] },
@@ -93,13 +138,36 @@ const tierChainSchema = z.object({
     .refine((list) => new Set(list.map((r) => r.id)).size === list.length, "Each requirement needs its own id."),
 });
 
+const audienceRuleSchema = requirementSchema.extend({
+  public: z.boolean(),
+  minSize: z
+    .number({ error: "Enter a number of people." })
+    .int("Enter a whole number of people.")
+    .min(1, "At least 1 person.")
+    .max(100_000, "At most 100 000 people.")
+    .nullable(),
+  minTier: z.number().int().min(0, "Tier 0 to 4.").max(4, "Tier 0 to 4."),
+});
+
+const audienceRulesSchema = z
+  .array(audienceRuleSchema)
+  .max(12, "At most 12 audience controls.")
+  .refine((list) => new Set(list.map((r) => r.id)).size === list.length, "Each audience control needs its own id.")
+  .refine((list) => list.every((r) => r.public || r.minSize !== null), {
+    message: "Each audience control applies to the public, from a number of people, or both.",
+  });
+
 /**
  * A chain rule set an admin may adopt. A higher tier may never have a shorter chain or a longer
  * validity than a lower one, and tiers 2–4 always end with the safety officer: a stored rule set can
  * make the rules stricter, never let a lethal set-up through on fewer signatures.
  */
 export const chainRulesSchema = z
-  .object({ tiers: z.tuple([tierChainSchema, tierChainSchema, tierChainSchema, tierChainSchema, tierChainSchema]) })
+  .object({
+    tiers: z.tuple([tierChainSchema, tierChainSchema, tierChainSchema, tierChainSchema, tierChainSchema]),
+    // Rule sets adopted before audience controls existed take the defaults: stricter, never looser.
+    audience: audienceRulesSchema.default(DEFAULT_AUDIENCE_RULES),
+  })
   .superRefine((rules, ctx) => {
     rules.tiers.forEach((chain, tier) => {
       if (tier >= 2 && chain.steps.at(-1) !== "safety_officer") {
@@ -132,6 +200,39 @@ export function tierChain(rules: ChainRules, tier: number): TierChain {
   const chain = rules.tiers[tier];
   if (!chain) throw new Error(`no chain rules for tier ${tier}`);
   return chain;
+}
+
+/** The event facts audience controls look at (from a revision's content; missing facts count as none). */
+export type AudienceFacts = { audience: string | null; audienceSize: number | null };
+
+export function audienceFactsOf(content: unknown): AudienceFacts {
+  const event = (content as { event?: { audience?: unknown; audienceSize?: unknown } } | null)?.event;
+  return {
+    audience: typeof event?.audience === "string" ? event.audience : null,
+    audienceSize: typeof event?.audienceSize === "number" ? event.audienceSize : null,
+  };
+}
+
+/** The audience controls that apply to an event at a tier, in the rule set's order. */
+export function audienceRequirements(rules: ChainRules, tier: number, facts: AudienceFacts): Requirement[] {
+  return (rules.audience ?? [])
+    .filter((r) => tier >= r.minTier)
+    .filter(
+      (r) =>
+        (r.public && facts.audience === "public") ||
+        (r.minSize !== null && facts.audienceSize !== null && facts.audienceSize >= r.minSize),
+    )
+    .map(({ id, text }) => ({ id, text }));
+}
+
+/**
+ * Everything the final approver confirms, printed on the permit as conditions: the tier's
+ * requirements, then the audience's (an id both name is listed once).
+ */
+export function approvalRequirements(rules: ChainRules, tier: number, facts: AudienceFacts): Requirement[] {
+  const own = tierChain(rules, tier).requirements;
+  const ids = new Set(own.map((r) => r.id));
+  return [...own, ...audienceRequirements(rules, tier, facts).filter((r) => !ids.has(r.id))];
 }
 
 /** "Reviewer, then safety officer" / "None: recorded, self-certified". */

@@ -186,6 +186,8 @@ describe("the six-step application form, in a real browser", () => {
       await page.getByRole("button", { name: "Submit for review" }).click();
       await expect.poll(() => page.getByTestId("submitted").isVisible(), { timeout: 15_000 }).toBe(true);
       expect(await page.getByTestId("submitted").textContent()).toContain("Revision 1 was submitted");
+      // Issue 20, item 8: the line under the title says so too (it kept saying "draft").
+      expect(await page.getByTestId("form-subtitle").textContent()).toContain("revision 1: submitted for review");
       await expectNoSeriousViolations(page, "the confirmation");
 
       const [row] = await getDb().select().from(applications).where(eq(applications.id, applicationId));

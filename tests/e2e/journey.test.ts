@@ -6,6 +6,7 @@ import { mailOutbox, permits, type Department, type User } from "@/db/schema";
 import { runReminders } from "@/lib/jobs/actions";
 import { instantAt } from "@/lib/jobs/clock";
 import { decide } from "@/lib/review/decide";
+import { DEFAULT_AUDIENCE_RULES } from "@/lib/rules/chain";
 import { reminderKey } from "@/lib/jobs/reminders";
 import { deliverDueMail } from "@/lib/mail/actions";
 import { addDays, todayIn } from "@/lib/permits/dates";
@@ -341,6 +342,8 @@ describe("the whole job, from invitation to reminder, in a real browser", () => 
       expect(await officerPage.getByLabel("Valid to").inputValue()).toBe(isoDayFromNow(21));
       // Tier 2's one requirement in the default chain rules (lib/rules/chain.ts).
       await officerPage.getByLabel("The named operator holds current training.").check();
+      // Issue 20, item 9: sixty members of the public add the audience controls of the default rules.
+      for (const rule of DEFAULT_AUDIENCE_RULES) await officerPage.getByLabel(rule.text).check();
       await officerPage.getByRole("textbox", { name: /^Your password/ }).fill(TEST_PASSWORD);
       await expectAccessible(officerPage, "/applications/[id] approving");
       await officerPage.getByRole("button", { name: "Sign and approve" }).click();
@@ -353,7 +356,8 @@ describe("the whole job, from invitation to reminder, in a real browser", () => 
       expect(permit).toMatchObject({
         state: "active",
         tier: 2,
-        conditions: ["The named operator holds current training."],
+        // Tier 2's requirement, then the audience's: sixty members of the public (issue 20, item 9).
+        conditions: ["The named operator holds current training.", ...DEFAULT_AUDIENCE_RULES.map((r) => r.text)],
         // The outreach evening's one day, not the tier's 180 days (issue 20).
         validFrom: isoDayFromNow(21),
         validTo: isoDayFromNow(21),
@@ -371,6 +375,9 @@ describe("the whole job, from invitation to reminder, in a real browser", () => 
       .poll(() => instructor.locator("main").getByText("Active", { exact: true }).first().isVisible())
       .toBe(true);
     expect(await instructor.getByRole("note", { name: "About these figures" }).first().isVisible()).toBe(true);
+    // Issue 20, item 9: the audience's controls are conditions of the permit (sixty members of the public).
+    const conditions = (await instructor.getByTestId("permit-conditions").textContent()) ?? "";
+    for (const rule of DEFAULT_AUDIENCE_RULES) expect(conditions).toContain(rule.text);
     await expectAccessible(instructor, "/permits/[id]");
     await screenshot(instructor, "permit");
 
@@ -515,6 +522,7 @@ describe("the whole job, from invitation to reminder, in a real browser", () => 
         expect(await officerPage.getByLabel("Valid from").inputValue()).toBe(eventDay);
         expect(await officerPage.getByLabel("Valid to").inputValue()).toBe(eventDay);
         await officerPage.getByLabel("The named operator holds current training.").check();
+        for (const rule of DEFAULT_AUDIENCE_RULES) await officerPage.getByLabel(rule.text).check();
         await officerPage.getByRole("textbox", { name: /^Your password/ }).fill(TEST_PASSWORD);
         await officerPage.getByRole("button", { name: "Sign and approve" }).click();
         await expect.poll(async () => (await permitForApplication(application.id))?.state).toBe("active");

@@ -104,8 +104,9 @@ describe("the printed permit", () => {
           expect(text).toContain(signature.role);
           expect(text).toContain(signature.meaning);
         }
-        // Signed times in UTC (samples.ts: 2026-02-25T09:30Z and 2026-02-26T10:15Z).
-        if (tier > 0) expect(text).toContain("2026-02-25 09:30 UTC");
+        // Signed times in the institution's zone, named (samples.ts: 2026-02-25T09:30Z, Europe/London). London
+        // keeps Greenwich Mean Time, UTC+0, in February; summer time starts in late March (memory).
+        if (tier > 0) expect(text).toContain("2026-02-25 09:30 GMT");
 
         expect(text).toContain(folded(`About these figures. ${ABOUT_FIGURES_TEXT}`));
         expectHazardHeader(text, tier);

@@ -6,7 +6,14 @@ import { DEFAULT_RULES } from "@/lib/hazard";
 import { AppError } from "@/lib/errors";
 import { inclusiveDays } from "@/lib/permits/dates";
 import { decide } from "@/lib/review/decide";
-import { chainRulesSchema, DEFAULT_CHAIN_RULES, DEFAULT_REMINDER_RULES, type ChainRules } from "@/lib/rules/chain";
+import {
+  approvalRequirements,
+  audienceRequirements,
+  chainRulesSchema,
+  DEFAULT_CHAIN_RULES,
+  DEFAULT_REMINDER_RULES,
+  type ChainRules,
+} from "@/lib/rules/chain";
 import { adoptRuleSet } from "@/lib/rules/actions";
 import { chainRulesFor, currentChainRules, currentReminderRules, currentTierRuleSet } from "@/lib/rules/queries";
 import { adoptRulesSchema } from "@/lib/rules/schemas";
@@ -76,6 +83,49 @@ describe("the default chain rules (product.md, Default rules)", () => {
     const badId = clone(DEFAULT_CHAIN_RULES);
     badId.tiers[3].requirements = [{ id: "Not An Id", text: "Something to confirm." }];
     expect(issuesOf({ kind: "chain", rules: badId }).map((i) => i.path)).toContain("rules.tiers.3.requirements.0.id");
+  });
+});
+
+// Issue 20, item 9. What a safety office expects of a public demonstration (common practice): the
+// front-row distance, a steward and a first aider for the public or 50 people and more, and a briefing
+// for the public; nothing for a touch-safe tier-0 set-up.
+describe("audience controls", () => {
+  const ids = (list: { id: string }[]) => list.map((r) => r.id);
+  it("add the public's controls to the tier's, and the crowd's from 50 people", () => {
+    const rules = DEFAULT_CHAIN_RULES;
+    expect(ids(audienceRequirements(rules, 2, { audience: "public", audienceSize: 80 }))).toEqual([
+      "front-row-distance",
+      "audience-steward",
+      "first-aider-present",
+      "audience-briefing",
+    ]);
+    expect(ids(audienceRequirements(rules, 2, { audience: "students", audienceSize: 40 }))).toEqual([]);
+    expect(ids(audienceRequirements(rules, 3, { audience: "students", audienceSize: 60 }))).toEqual([
+      "front-row-distance",
+      "audience-steward",
+      "first-aider-present",
+    ]);
+    expect(ids(audienceRequirements(rules, 0, { audience: "public", audienceSize: 300 }))).toEqual([]);
+    expect(ids(approvalRequirements(rules, 2, { audience: "public", audienceSize: 10 }))).toEqual([
+      "named-operator-trained",
+      "front-row-distance",
+      "audience-steward",
+      "first-aider-present",
+      "audience-briefing",
+    ]);
+  });
+
+  it("are part of the versioned chain rules: older versions read with the defaults, a control needs a trigger", () => {
+    const { audience: _audience, ...older } = DEFAULT_CHAIN_RULES;
+    const parsed = chainRulesSchema.parse(older);
+    expect(parsed.audience).toEqual(DEFAULT_CHAIN_RULES.audience);
+    const never = clone(DEFAULT_CHAIN_RULES);
+    never.audience[0] = { ...never.audience[0], public: false, minSize: null };
+    expect(chainRulesSchema.safeParse(never).success).toBe(false);
+    const none = { ...clone(DEFAULT_CHAIN_RULES), audience: [] };
+    expect(
+      ids(approvalRequirements(chainRulesSchema.parse(none), 2, { audience: "public", audienceSize: 80 })),
+    ).toEqual(["named-operator-trained"]);
   });
 });
 

@@ -121,6 +121,23 @@ export function SetupEditor({ prefix, headingLevel = 3 }: SetupEditorProps) {
   const shownGaps = upgrade.text.gaps;
   const setAcross = (name: string, next: string[]) =>
     setValue(name, next, { shouldDirty: true, shouldValidate: true, shouldTouch: true });
+  // A source added as a capacitor gets "C2"; when its kind is changed and the label is still the one
+  // the editor gave it, the label follows the kind ("Terminal 2", not "C2"), and so do the gaps and
+  // bleeders wired across it. A label the user typed is kept.
+  const followKind = (index: number, previous: SourceKindName, next: SourceKindName) => {
+    const label = (setup.sources?.[index]?.label ?? "").trim();
+    if (label !== "" && label !== defaultSourceLabel(previous, index)) return;
+    const oldId = sourceTextId({ label }, index);
+    const nextLabel = defaultSourceLabel(next, index);
+    setValue(`${prefix}.sources.${index}.label`, nextLabel, { shouldDirty: true });
+    const rename = (list: readonly string[] | undefined) => (list ?? []).map((id) => (id === oldId ? nextLabel : id));
+    (setup.gaps ?? []).forEach((gap, i) => {
+      if (gap.across?.includes(oldId)) setAcross(`${prefix}.gaps.${i}.across`, rename(gap.across));
+    });
+    (setup.bleeders ?? []).forEach((bleeder, i) => {
+      if (bleeder.across?.includes(oldId)) setAcross(`${prefix}.bleeders.${i}.across`, rename(bleeder.across));
+    });
+  };
   const confirmWiring = () =>
     shownGaps.forEach((gap, index) => setAcross(`${prefix}.gaps.${index}.across`, gap.across ?? []));
   const H = headingLevel === 2 ? "h2" : "h3";
@@ -169,7 +186,14 @@ export function SetupEditor({ prefix, headingLevel = 3 }: SetupEditorProps) {
               <div className="grid gap-3 sm:grid-cols-2">
                 <FieldShell label="Kind" error={errorAt(errors, `${name}.kind`)}>
                   {(a11y) => (
-                    <select {...a11y} {...register(`${name}.kind`)} className={controlClasses}>
+                    <select
+                      {...a11y}
+                      {...register(`${name}.kind`, {
+                        onChange: (event: React.ChangeEvent<HTMLSelectElement>) =>
+                          followKind(index, kind, event.target.value as SourceKindName),
+                      })}
+                      className={controlClasses}
+                    >
                       {SOURCE_KINDS.map((k) => (
                         <option key={k} value={k}>
                           {SOURCE_KIND_LABELS[k]}

@@ -11,13 +11,14 @@ import {
   listRuleSets,
   type RuleSetHistoryRow,
 } from "@/lib/rules/queries";
-import { institutionToday } from "@/lib/permits/queries";
+import { institutionTimeZone } from "@/lib/permits/queries";
+import { todayIn } from "@/lib/permits/dates";
 import { editableSettings } from "@/lib/settings/queries";
 import { ChainRulesForm, PermitPrefixForm, ReminderForm, TierRulesForm } from "./rules-forms";
 
 export const metadata: Metadata = { title: "Rules" };
 
-function History({ rows, builtIn }: { rows: RuleSetHistoryRow[]; builtIn: string }) {
+function History({ rows, builtIn, timeZone }: { rows: RuleSetHistoryRow[]; builtIn: string; timeZone: string }) {
   return (
     <ol className="flex flex-col gap-1.5 text-sm">
       {rows.map((r) => (
@@ -25,7 +26,7 @@ function History({ rows, builtIn }: { rows: RuleSetHistoryRow[]; builtIn: string
           <span className="font-medium text-stone-900">Version {r.version}</span>
           <span className="text-stone-600">
             {" "}
-            · {formatDateTime(r.createdAt)} · {r.createdByName ?? "system"}
+            · {formatDateTime(r.createdAt, timeZone)} · {r.createdByName ?? "system"}
           </span>
           {r.note && <span className="block text-stone-700">{r.note}</span>}
         </li>
@@ -40,7 +41,7 @@ function History({ rows, builtIn }: { rows: RuleSetHistoryRow[]; builtIn: string
 
 export default async function AdminRulesPage() {
   await requirePageUser("admin.rules", "/admin/rules");
-  const [chain, tier, reminders, chainHistory, tierHistory, reminderHistory, settings, today] = await Promise.all([
+  const [chain, tier, reminders, chainHistory, tierHistory, reminderHistory, settings, timeZone] = await Promise.all([
     currentChainRules(),
     currentTierRuleSet(),
     currentReminderRules(),
@@ -48,8 +49,9 @@ export default async function AdminRulesPage() {
     listRuleSets("tier"),
     listRuleSets("reminders"),
     editableSettings(),
-    institutionToday(),
+    institutionTimeZone(),
   ]);
+  const today = todayIn(timeZone);
   const year = Number(today.slice(0, 4));
   return (
     <>
@@ -74,7 +76,7 @@ export default async function AdminRulesPage() {
             <ChainRulesForm rules={chain.rules} />
           </Card>
           <Card title="Chain rules history">
-            <History rows={chainHistory} builtIn="built-in defaults" />
+            <History timeZone={timeZone} rows={chainHistory} builtIn="built-in defaults" />
           </Card>
         </div>
 
@@ -86,7 +88,7 @@ export default async function AdminRulesPage() {
             <ReminderForm daysBefore={reminders.rules.daysBefore} />
           </Card>
           <Card title="Reminder history">
-            <History rows={reminderHistory} builtIn="30, 7, 1 and 0 days" />
+            <History timeZone={timeZone} rows={reminderHistory} builtIn="30, 7, 1 and 0 days" />
           </Card>
         </div>
 
@@ -111,7 +113,7 @@ export default async function AdminRulesPage() {
             <TierRulesForm rulesJson={JSON.stringify(tier.rules, null, 2)} />
           </Card>
           <Card title="Threshold history">
-            <History rows={tierHistory} builtIn="the engine's defaults (benchclear-default-1)" />
+            <History timeZone={timeZone} rows={tierHistory} builtIn="the engine's defaults (benchclear-default-1)" />
           </Card>
         </div>
       </div>

@@ -90,9 +90,24 @@ export function ChainRulesForm({ rules }: { rules: ChainRules }) {
       requirements: t.requirements.map((r) => r.text).join("\n"),
     })),
   );
+  // Audience controls (issue 20, item 9): what the event's audience adds to any tier's requirements.
+  const [audience, setAudience] = useState(
+    (rules.audience ?? []).map((r) => ({
+      id: r.id,
+      text: r.text,
+      public: r.public,
+      minSize: r.minSize === null ? "" : String(r.minSize),
+      minTier: String(r.minTier),
+    })),
+  );
   const [note, setNote] = useState("");
   const [status, setStatus] = useState<Status>(null);
   const [busy, setBusy] = useState(false);
+  const updateAudience = (index: number, patch: Partial<(typeof audience)[number]>) =>
+    setAudience((a) => a.map((row, i) => (i === index ? { ...row, ...patch } : row)));
+  const audienceIssue = (index: number, field: string) =>
+    status?.issues?.find((i) => i.path.startsWith(`rules.audience[${index}].${field}`))?.message;
+  const audienceListIssue = status?.issues?.find((i) => i.path === "rules.audience")?.message;
 
   const update = (tier: number, patch: Partial<(typeof rows)[number]>) =>
     setRows((r) => r.map((row, i) => (i === tier ? { ...row, ...patch } : row)));
@@ -111,6 +126,18 @@ export function ChainRulesForm({ rules }: { rules: ChainRules }) {
           validityDays: Number(row.validityDays),
           requirements: toRequirements(row.requirements, rules.tiers[tier].requirements),
         })),
+        audience: audience
+          .filter((row) => row.text.trim() !== "")
+          .map((row) => {
+            const [{ id }] = toRequirements(row.text, row.id ? [{ id: row.id, text: row.text.trim() }] : []);
+            return {
+              id,
+              text: row.text.trim(),
+              public: row.public,
+              minSize: row.minSize.trim() === "" ? null : Number(row.minSize),
+              minTier: Number(row.minTier),
+            };
+          }),
       },
     };
     const result = await adopt(body);
@@ -170,6 +197,82 @@ export function ChainRulesForm({ rules }: { rules: ChainRules }) {
           </FieldShell>
         </fieldset>
       ))}
+      <fieldset className="rounded-md border border-stone-200 px-3 py-3" data-testid="audience-controls">
+        <legend className="px-1 text-sm font-semibold text-stone-900">Audience controls</legend>
+        <p className="text-xs text-stone-600">
+          Added to the tier&apos;s requirements when the event&apos;s audience includes members of the public, or
+          numbers at least the given people. The final approver confirms each one; they are printed on the permit as
+          conditions. A tier without signers (tier 0 by default) prints them at once.
+        </p>
+        {audienceListIssue && <p className="mt-1 text-sm text-red-800">{audienceListIssue}</p>}
+        <ol className="mt-3 flex flex-col gap-3">
+          {audience.map((row, index) => (
+            <li key={index} className="rounded border border-stone-200 bg-stone-50/60 p-3">
+              <FieldShell label={`Audience control ${index + 1}`} error={audienceIssue(index, "text")}>
+                {(a11y) => (
+                  <textarea
+                    {...a11y}
+                    rows={2}
+                    value={row.text}
+                    onChange={(e) => updateAudience(index, { text: e.target.value })}
+                    className={controlClasses}
+                  />
+                )}
+              </FieldShell>
+              <div className="mt-2 grid gap-3 sm:grid-cols-3">
+                <label className="flex items-center gap-2 self-end text-sm text-stone-800">
+                  <input
+                    type="checkbox"
+                    className="size-4"
+                    checked={row.public}
+                    onChange={(e) => updateAudience(index, { public: e.target.checked })}
+                  />
+                  When members of the public attend
+                </label>
+                <Field
+                  label="Or from this many people"
+                  hint="Empty: the size alone never applies it."
+                  name={`audience-size-${index}`}
+                  inputMode="numeric"
+                  value={row.minSize}
+                  onChange={(e) => updateAudience(index, { minSize: e.target.value })}
+                  error={audienceIssue(index, "minSize")}
+                  figure
+                />
+                <FieldShell label="From tier" error={audienceIssue(index, "minTier")}>
+                  {(a11y) => (
+                    <select
+                      {...a11y}
+                      value={row.minTier}
+                      onChange={(e) => updateAudience(index, { minTier: e.target.value })}
+                      className={controlClasses}
+                    >
+                      {[0, 1, 2, 3, 4].map((t) => (
+                        <option key={t} value={String(t)}>
+                          Tier {t} and above
+                        </option>
+                      ))}
+                    </select>
+                  )}
+                </FieldShell>
+              </div>
+              <div className="mt-2 flex justify-end">
+                <Button variant="ghost" size="sm" onClick={() => setAudience((a) => a.filter((_, i) => i !== index))}>
+                  Remove audience control {index + 1}
+                </Button>
+              </div>
+            </li>
+          ))}
+        </ol>
+        <Button
+          variant="secondary"
+          size="sm"
+          className="mt-3"
+          onClick={() => setAudience((a) => [...a, { id: "", text: "", public: true, minSize: "", minTier: "1" }])}
+        >
+          Add audience control
+        </Button>
+      </fieldset>
       <Field
         label="Note for the record"
         name="chain-note"
@@ -212,11 +315,13 @@ export function ReminderForm({ daysBefore }: { daysBefore: number[] }) {
     <form onSubmit={submit} noValidate className="flex flex-col gap-4">
       <StatusBox status={status} />
       <Field
-        label="Days before expiry (1 = on the last valid day, 0 = the day after)"
+        label="Days before expiry"
         name="reminder-days"
         value={days}
         onChange={(e) => setDays(e.target.value)}
-        hint="Comma-separated; 0 sends one on the day the permit expires."
+        // One meaning in label and hint (the label said "0 = the day after" while the hint said "on the
+        // day the permit expires"): lib/jobs/reminders.ts sends N on the last valid day + 1 − N.
+        hint="Comma-separated, e.g. 30, 7, 1, 0. 1 is sent on the permit's last valid day; 0 the day after it, saying the permit has expired."
         error={status?.issues?.find((i) => i.path.startsWith("rules.daysBefore"))?.message}
         figure
       />

@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import { Card } from "@/app/_components/card";
 import { PageHeader } from "@/app/_components/page-header";
 import { formatDateTime } from "@/app/_components/format";
+import { institutionTimeZone } from "@/lib/permits/queries";
 import { requirePageUser } from "@/lib/auth/guards";
 import { listDepartments, listPendingInvitations, listUsers } from "@/lib/users/queries";
 import { InviteForm } from "./invite-form";
@@ -11,10 +12,11 @@ export const metadata: Metadata = { title: "Users" };
 
 export default async function AdminUsersPage() {
   const admin = await requirePageUser("admin.users", "/admin/users");
-  const [users, invitations, departments] = await Promise.all([
+  const [users, invitations, departments, timeZone] = await Promise.all([
     listUsers(admin),
     listPendingInvitations(admin),
     listDepartments(),
+    institutionTimeZone(),
   ]);
   return (
     <>
@@ -30,7 +32,7 @@ export default async function AdminUsersPage() {
             users={users.map((u) => ({
               ...u,
               disabled: u.disabledAt !== null,
-              lastSignIn: u.lastSignInAt ? formatDateTime(u.lastSignInAt) : "never",
+              lastSignIn: u.lastSignInAt ? formatDateTime(u.lastSignInAt, timeZone) : "never",
             }))}
           />
         </Card>
@@ -47,7 +49,7 @@ export default async function AdminUsersPage() {
                   <li key={inv.id} className="py-2">
                     <p className="font-medium text-stone-900">{inv.name}</p>
                     <p className="text-stone-600">{inv.email}</p>
-                    <p className="text-xs text-stone-500">Link valid until {formatDateTime(inv.expiresAt)}</p>
+                    <p className="text-xs text-stone-500">Link valid until {formatDateTime(inv.expiresAt, timeZone)}</p>
                   </li>
                 ))}
               </ul>

@@ -11,6 +11,7 @@ import { PageHeader } from "@/app/_components/page-header";
 import type { Tier } from "@/app/_components/tier";
 import { TierBadge } from "@/app/_components/tier-badge";
 import { getApparatus } from "@/lib/apparatus/queries";
+import { institutionTimeZone } from "@/lib/permits/queries";
 import { GAP_FIELDS, SOURCE_FIELDS } from "@/lib/apparatus/setup-text";
 import { can, requirePageUser } from "@/lib/auth/guards";
 import { assessSetup, BASE_UNIT, formatQuantity, upgradeSetup, type EnergySource } from "@/lib/hazard";
@@ -48,7 +49,7 @@ export default async function ApparatusPage({ params }: PageProps) {
   const { id } = await params;
   const { user, apparatus } = await load(id);
   const current = apparatus.current;
-  const rules = await currentTierRules();
+  const [rules, timeZone] = await Promise.all([currentTierRules(), institutionTimeZone()]);
   // The figures under the rules and engine in force now; the stored revision keeps the ones it was
   // saved with. A revision saved before gaps were wired has its gaps set across its voltage-less
   // sphere terminals only, and the page asks for the wiring to be confirmed by editing.
@@ -151,7 +152,7 @@ export default async function ApparatusPage({ params }: PageProps) {
                   header: "Saved",
                   cell: (r) => (
                     <>
-                      <time dateTime={isoDate(r.createdAt)}>{formatDateTime(r.createdAt)}</time>
+                      <time dateTime={isoDate(r.createdAt)}>{formatDateTime(r.createdAt, timeZone)}</time>
                       <span className="block text-xs text-stone-600">{r.createdByName}</span>
                     </>
                   ),

@@ -6,21 +6,20 @@ import { Alert } from "@/app/_components/alert";
 import { ButtonLink } from "@/app/_components/button";
 import { Card } from "@/app/_components/card";
 import { AboutFigures } from "@/app/_components/about-figures";
-import { isoDate } from "@/app/_components/format";
+import { formatDateTime, isoDate } from "@/app/_components/format";
 import { PageHeader } from "@/app/_components/page-header";
 import { StateBadge } from "@/app/_components/state-badge";
 import { isTier } from "@/app/_components/tier";
 import { TierBadge } from "@/app/_components/tier-badge";
 import { pinLabel, pinOptions } from "@/lib/applications/pins";
 import { requirePageUser } from "@/lib/auth/guards";
-import { defaultValidity, eventDaysOf } from "@/lib/permits/dates";
-import { institutionToday } from "@/lib/permits/queries";
+import { defaultValidity, eventDaysOf, todayIn } from "@/lib/permits/dates";
+import { institutionTimeZone } from "@/lib/permits/queries";
 import { getApplicationRecord } from "@/lib/review/queries";
 import { repliesFor } from "@/lib/review/replies";
-import { describeChain, STEP_ROLE_LABELS, tierChain } from "@/lib/rules/chain";
+import { approvalRequirements, audienceFactsOf, describeChain, STEP_ROLE_LABELS, tierChain } from "@/lib/rules/chain";
 import type { ApplicationContent } from "@/lib/applications/schemas";
 import { SignatureList } from "@/app/_components/signature-list";
-import { formatUtc } from "@/app/_components/utc";
 import { ContentSummary } from "./_components/content-summary";
 import { DecisionPanel } from "./_components/decision-panel";
 import { RevisionDiff } from "./_components/revision-diff";
@@ -57,13 +56,18 @@ export default async function ApplicationPage({
   const content = (current?.content ?? application.draft) as Partial<ApplicationContent>;
   const tier = current?.tier ?? application.tier;
   const chain = isTier(tier) ? tierChain(rules, tier) : null;
+  // The tier's requirements and those the event's audience adds: the approver confirms them all.
+  const requirements = isTier(tier) ? approvalRequirements(rules, tier, audienceFactsOf(content)) : [];
   const comments = record.decisions.filter((d) => d.comment && d.kind !== "revoke");
-  const replies = comments.length > 0 ? await repliesFor(user, application.id) : [];
+  const [replies, timeZone] = await Promise.all([
+    comments.length > 0 ? repliesFor(user, application.id) : [],
+    institutionTimeZone(),
+  ]);
   const revisionNumber = new Map(record.revisions.map((r) => [r.id, r.revision]));
 
   let panel: React.ReactNode = null;
   if (options?.ok && chain) {
-    const today = await institutionToday();
+    const today = todayIn(timeZone);
     const eventDays = eventDaysOf(current?.content);
     const window = defaultValidity(eventDays, chain.validityDays, today);
     panel = (
@@ -76,7 +80,7 @@ export default async function ApplicationPage({
           version={application.version}
           allowed={options.allowed}
           stepLabel={`Step ${options.step} of ${chain.steps.length}: ${STEP_ROLE_LABELS[options.role]}${options.final ? " (final approval)" : ""}.`}
-          requirements={options.final ? chain.requirements : []}
+          requirements={options.final ? requirements : []}
           validityDays={chain.validityDays}
           defaultValidFrom={window.validFrom}
           defaultValidTo={window.validTo}
@@ -103,7 +107,7 @@ export default async function ApplicationPage({
               <>
                 {" "}
                 · revision {current.revision}, submitted{" "}
-                <time dateTime={isoDate(current.submittedAt)}>{formatUtc(current.submittedAt)}</time>
+                <time dateTime={isoDate(current.submittedAt)}>{formatDateTime(current.submittedAt, timeZone)}</time>
               </>
             )}
           </>
@@ -191,12 +195,12 @@ export default async function ApplicationPage({
                   <dt className="text-stone-600">Chain rules</dt>
                   <dd>version {application.chainRulesVersion ?? 0}</dd>
                 </div>
-                {chain.requirements.length > 0 && (
+                {requirements.length > 0 && (
                   <div>
                     <dt className="text-stone-600">Conditions the approver confirms</dt>
                     <dd>
                       <ul className="mt-1 list-disc pl-5">
-                        {chain.requirements.map((r) => (
+                        {requirements.map((r) => (
                           <li key={r.id}>{r.text}</li>
                         ))}
                       </ul>
@@ -209,6 +213,7 @@ export default async function ApplicationPage({
 
           <Card title="Signatures">
             <SignatureList
+              timeZone={timeZone}
               items={record.decisions.map((d) => ({ ...d, revision: revisionNumber.get(d.revisionId) }))}
               empty={
                 application.state === "approved" && !record.decisions.length
@@ -235,7 +240,7 @@ export default async function ApplicationPage({
                           <p className="whitespace-pre-line text-stone-900">{r.body}</p>
                           <p className="text-xs text-stone-600">
                             Reply by {r.authorName},{" "}
-                            <time dateTime={isoDate(r.createdAt)}>{formatUtc(r.createdAt)}</time>
+                            <time dateTime={isoDate(r.createdAt)}>{formatDateTime(r.createdAt, timeZone)}</time>
                           </p>
                         </div>
                       ))}
@@ -257,7 +262,8 @@ export default async function ApplicationPage({
                       {r.id === application.currentRevisionId && <span className="text-stone-600"> (current)</span>}
                     </p>
                     <p className="text-xs text-stone-600">
-                      {r.submittedByName} · <time dateTime={isoDate(r.submittedAt)}>{formatUtc(r.submittedAt)}</time>
+                      {r.submittedByName} ·{" "}
+                      <time dateTime={isoDate(r.submittedAt)}>{formatDateTime(r.submittedAt, timeZone)}</time>
                     </p>
                     <p className="figure text-xs break-all text-stone-600">SHA-256 {r.contentHash}</p>
                   </li>
@@ -267,7 +273,7 @@ export default async function ApplicationPage({
           </Card>
 
           <Card title="Timeline">
-            <Timeline events={record.audit} />
+            <Timeline events={record.audit} timeZone={timeZone} />
           </Card>
         </div>
       </div>

@@ -8,6 +8,7 @@ import { emptyDraft } from "@/lib/applications/draft";
 import { requirePageUser } from "@/lib/auth/guards";
 import { currentTierRules } from "@/lib/hazard-rules";
 import { ApplicationForm } from "./_form/application-form";
+import { FormSubtitle } from "./_form/form-subtitle";
 
 export const metadata: Metadata = { title: "New application" };
 
@@ -23,7 +24,9 @@ export default async function NewApplicationPage({ searchParams }: PageProps) {
     <PageHeader
       eyebrow={<Link href="/applications">Applications</Link>}
       title="New application"
-      description="Six steps; the draft saves itself as you type, and you can leave and come back to it."
+      description={
+        <FormSubtitle draftText="Six steps; the draft saves itself as you type, and you can leave and come back to it." />
+      }
     />
   );
   if (!user.departmentId) {

@@ -4,6 +4,7 @@ import { notFound } from "next/navigation";
 import { Alert } from "@/app/_components/alert";
 import { Card } from "@/app/_components/card";
 import { DataTable, type Column } from "@/app/_components/data-table";
+import { institutionTimeZone } from "@/lib/permits/queries";
 import { formatDateTime } from "@/app/_components/format";
 import { PageHeader } from "@/app/_components/page-header";
 import { Stat, StatList } from "@/app/_components/stat";
@@ -26,7 +27,7 @@ function size(bytes: number): string {
       : `${(bytes / 1048576).toFixed(2)} MiB`;
 }
 
-const messageColumns = (selected: string | undefined): Column<CaughtSummary>[] => [
+const messageColumns = (selected: string | undefined, timeZone: string): Column<CaughtSummary>[] => [
   {
     key: "subject",
     header: "Subject",
@@ -46,7 +47,7 @@ const messageColumns = (selected: string | undefined): Column<CaughtSummary>[] =
     key: "received",
     header: "Received",
     hideBelow: "md",
-    cell: (m) => <time dateTime={m.receivedAt}>{formatDateTime(m.receivedAt)}</time>,
+    cell: (m) => <time dateTime={m.receivedAt}>{formatDateTime(m.receivedAt, timeZone)}</time>,
   },
   {
     key: "notes",
@@ -77,11 +78,12 @@ export default async function DevMailPage({ searchParams }: { searchParams: Prom
   if (!inboxEnabled()) notFound();
   const { id: rawId } = await searchParams;
   const id = typeof rawId === "string" ? rawId : undefined;
-  const [messages, counts, pending, selected] = await Promise.all([
+  const [messages, counts, pending, selected, timeZone] = await Promise.all([
     listCaught(),
     outboxCounts(),
     listOutbox({ statuses: ["queued", "failed"], limit: 100 }),
     id ? getCaught(id) : Promise.resolve(null),
+    institutionTimeZone(),
   ]);
 
   return (
@@ -113,7 +115,7 @@ export default async function DevMailPage({ searchParams }: { searchParams: Prom
         <Card
           className="mb-6"
           title={selected.subject || "(no subject)"}
-          description={`To ${selected.envelope.to.join(", ")} · received ${formatDateTime(selected.receivedAt)}`}
+          description={`To ${selected.envelope.to.join(", ")} · received ${formatDateTime(selected.receivedAt, timeZone)}`}
           actions={<Link href="/dev/mail">Close</Link>}
         >
           <dl className="mb-4 grid grid-cols-[max-content_minmax(0,1fr)] gap-x-4 gap-y-1 text-sm">
@@ -171,7 +173,7 @@ export default async function DevMailPage({ searchParams }: { searchParams: Prom
         <Card title="Received" flush>
           <DataTable
             caption="Messages the local inbox received, newest first"
-            columns={messageColumns(selected?.id)}
+            columns={messageColumns(selected?.id, timeZone)}
             rows={messages}
             rowKey={(m) => m.id}
             empty="No mail caught yet. Invite someone or submit an application, and the message appears here within seconds."

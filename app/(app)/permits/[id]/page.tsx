@@ -6,7 +6,7 @@ import { Alert } from "@/app/_components/alert";
 import { ButtonLink } from "@/app/_components/button";
 import { Card } from "@/app/_components/card";
 import { AboutFigures } from "@/app/_components/about-figures";
-import { formatDate, isoDate } from "@/app/_components/format";
+import { formatDate, formatDateTime, isoDate } from "@/app/_components/format";
 import { PageHeader } from "@/app/_components/page-header";
 import { Stat, StatList } from "@/app/_components/stat";
 import { StateBadge } from "@/app/_components/state-badge";
@@ -14,12 +14,11 @@ import { isTier } from "@/app/_components/tier";
 import { TierBadge } from "@/app/_components/tier-badge";
 import { can, requirePageUser } from "@/lib/auth/guards";
 import { daysFromTo, inclusiveDays } from "@/lib/permits/dates";
-import { getPermit } from "@/lib/permits/queries";
+import { getPermit, institutionTimeZone } from "@/lib/permits/queries";
 import { figureRows, formatPerson } from "@/lib/review/present";
 import { printAudience, printDays } from "@/lib/pdf/content";
 import { AUDIENCE_LABELS, EVENT_KIND_LABELS, type ApplicationContent } from "@/lib/applications/schemas";
 import { SignatureList } from "@/app/_components/signature-list";
-import { formatUtc } from "@/app/_components/utc";
 import { RenewButton, RevokeForm } from "./_components/permit-actions";
 
 export const metadata: Metadata = { title: "Permit" };
@@ -37,7 +36,7 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
   const { id } = await params;
   const user = await requirePageUser(undefined, `/permits/${id}`);
   if (!z.uuid().safeParse(id).success) notFound();
-  const found = await getPermit(user, id);
+  const [found, timeZone] = await Promise.all([getPermit(user, id), institutionTimeZone()]);
   if (!found) notFound();
   const { permit, application, revision, effectiveState, today } = found;
   const content = revision.content as Partial<ApplicationContent>;
@@ -133,7 +132,7 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
                   : "—"}
               </Row>
               <Row label="Issued">
-                <time dateTime={isoDate(permit.issuedAt)}>{formatUtc(permit.issuedAt)}</time>
+                <time dateTime={isoDate(permit.issuedAt)}>{formatDateTime(permit.issuedAt, timeZone)}</time>
               </Row>
               <Row label="Application">
                 <Link href={`/applications/${application.id}`} className="text-ink-800 underline decoration-ink-300">
@@ -154,7 +153,7 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
 
           <Card title="Conditions">
             {permit.conditions.length ? (
-              <ul className="list-disc pl-5 text-sm text-stone-900">
+              <ul className="list-disc pl-5 text-sm text-stone-900" data-testid="permit-conditions">
                 {permit.conditions.map((c) => (
                   <li key={c}>{c}</li>
                 ))}
@@ -178,7 +177,11 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
 
         <div className="flex min-w-0 flex-col gap-6">
           <Card title="Signatures">
-            <SignatureList items={found.signatures} empty="Self-certified: no signatures at this tier." />
+            <SignatureList
+              timeZone={timeZone}
+              items={found.signatures}
+              empty="Self-certified: no signatures at this tier."
+            />
           </Card>
           <Card title="Print" description="Post the permit at the bench and fix the bench card beside the apparatus.">
             <ul className="flex flex-col gap-2 text-sm" aria-label="Printable files">

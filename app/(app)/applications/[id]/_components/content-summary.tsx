@@ -8,7 +8,9 @@ import {
   figureRows,
   formatFieldValue,
   formatPerson,
+  sourceKindLabel,
 } from "@/lib/review/present";
+import { formatBytes } from "@/lib/applications/limits";
 import type { ApplicationContent } from "@/lib/applications/schemas";
 
 // The frozen content of one revision, read-only: event, apparatus and energy sources, the figures and
@@ -64,7 +66,8 @@ export function ContentSummary({ applicationId, content, assessment, revision }:
             <li key={i} className="rounded-md border border-stone-200 px-3 py-2">
               <p className="text-sm font-medium text-stone-900">
                 Source {i + 1}
-                {source.id ? ` · ${source.id}` : ""} <span className="font-normal text-stone-600">({source.kind})</span>
+                {source.id ? ` · ${source.id}` : ""}{" "}
+                <span className="font-normal text-stone-600">({sourceKindLabel(source.kind)})</span>
               </p>
               <dl className="mt-1 grid grid-cols-1 gap-x-6 gap-y-1 sm:grid-cols-2">
                 {Object.entries(source)
@@ -166,7 +169,7 @@ export function ContentSummary({ applicationId, content, assessment, revision }:
                 </a>
                 <span className="text-stone-600">
                   {" "}
-                  · {a.contentType} · {Math.max(1, Math.round(a.size_B / 1024))} KiB
+                  · {a.contentType} · {formatBytes(a.size_B)}
                 </span>
               </li>
             ))}

@@ -1,5 +1,4 @@
-import { isoDate } from "@/app/_components/format";
-import { formatUtc } from "@/app/_components/utc";
+import { formatDateTime, isoDate } from "@/app/_components/format";
 
 export type TimelineEvent = {
   id: number;
@@ -47,7 +46,7 @@ function describe(e: TimelineEvent): string {
 }
 
 /** The audit trail of one application and its permit, oldest first. */
-export function Timeline({ events }: { events: readonly TimelineEvent[] }) {
+export function Timeline({ events, timeZone }: { events: readonly TimelineEvent[]; timeZone: string }) {
   if (events.length === 0) return <p className="text-sm text-stone-600">No events recorded.</p>;
   return (
     <ol className="relative flex flex-col gap-3 border-l border-stone-200 pl-4">
@@ -56,7 +55,7 @@ export function Timeline({ events }: { events: readonly TimelineEvent[] }) {
           <span aria-hidden="true" className="absolute -left-[4.5px] mt-1.5 size-2 rounded-full bg-stone-400" />
           <p className="text-stone-900">{describe(e)}</p>
           <p className="text-xs text-stone-600">
-            {e.actorName} · <time dateTime={isoDate(e.occurredAt)}>{formatUtc(e.occurredAt)}</time>
+            {e.actorName} · <time dateTime={isoDate(e.occurredAt)}>{formatDateTime(e.occurredAt, timeZone)}</time>
           </p>
         </li>
       ))}

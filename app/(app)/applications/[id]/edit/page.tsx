@@ -11,6 +11,7 @@ import { AppError } from "@/lib/errors";
 import { returnCommentsFor } from "@/lib/review/queries";
 import { repliesFor } from "@/lib/review/replies";
 import { ApplicationForm } from "../../new/_form/application-form";
+import { FormSubtitle } from "../../new/_form/form-subtitle";
 
 export const metadata: Metadata = { title: "Edit application" };
 
@@ -56,8 +57,16 @@ export default async function EditApplicationPage({ params }: PageProps) {
       <PageHeader
         eyebrow={<Link href="/applications">Applications</Link>}
         title={app.draft.event.title || "Untitled application"}
-        // The state is said by the form itself, which knows when it has been submitted again.
-        description={`A-${app.seq}. The draft saves itself as you type.`}
+        // Follows the form: once it is submitted, the line says so (it kept saying "draft").
+        description={
+          <FormSubtitle
+            draftText={
+              app.state === "returned"
+                ? `A-${app.seq}, returned for changes. The draft saves itself as you type.`
+                : `A-${app.seq}, draft. It saves itself as you type.`
+            }
+          />
+        }
       />
       <ApplicationForm
         rules={rules}

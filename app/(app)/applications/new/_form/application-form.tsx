@@ -28,6 +28,7 @@ import { ApparatusStep, type ApparatusChoice } from "./apparatus-step";
 import { AttachmentsStep } from "./attachments-step";
 import { ControlsStep } from "./controls-step";
 import { EventStep } from "./event-step";
+import { announceSubmitted } from "./form-subtitle";
 import { ResultStep } from "./result-step";
 import { ReturnComments, type ReturnComment } from "./return-comments";
 import { ReviewStep } from "./review-step";
@@ -226,6 +227,7 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
       // No refresh here: the edit page would re-render for a submitted application and move away
       // from this confirmation (which carries the tier the server computed) before it is read.
       setSubmitted(res.application);
+      announceSubmitted({ seq: initial.seq, revision: res.application.revision, state: res.application.state });
     } catch (error) {
       if (error instanceof ApiError) {
         applyApiIssues(error, form.setError, { nameOf: fieldNameOf });
