@@ -14,7 +14,8 @@ import type { Tier } from "@/app/_components/tier";
 import { TierBadge } from "@/app/_components/tier-badge";
 import { myDashboardApplications } from "@/lib/applications/queries";
 import { can, requirePageUser } from "@/lib/auth/guards";
-import { expiringPermits, institutionTimeZone } from "@/lib/permits/queries";
+import { expiringPermits } from "@/lib/permits/queries";
+import { institutionTimeZone } from "@/lib/settings/queries";
 import { listQueue, queueCountsByTier } from "@/lib/review/queries";
 import { adminOverview } from "@/lib/users/queries";
 

@@ -3,6 +3,10 @@ import { setupFromText } from "@/lib/apparatus/setup-text";
 import { setupTextSchema } from "@/lib/apparatus/schemas";
 import { setupInputSchema } from "@/lib/apparatus/setup-schema";
 
+// The form's names for source kinds, for screens that read an application's content (lib/review sits
+// above applications and does not import apparatus).
+export { SOURCE_KIND_LABELS } from "@/lib/apparatus/schemas";
+
 // The application's content: what the form edits as a draft and what a submission freezes into an
 // application revision (the thing decisions sign). The permit PDF, the review diff and the e-mails
 // read this shape; keep it stable and extend it only with optional fields.

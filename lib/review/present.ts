@@ -3,8 +3,7 @@
 // every number is shown with that unit and three significant digits.
 
 import { formatQuantity, TIER_LABELS, type Assessment, type Tier } from "@/lib/hazard";
-import { AUDIENCE_LABELS, EVENT_KIND_LABELS } from "@/lib/applications/schemas";
-import { SOURCE_KIND_LABELS } from "@/lib/apparatus/schemas";
+import { AUDIENCE_LABELS, EVENT_KIND_LABELS, SOURCE_KIND_LABELS } from "@/lib/applications/schemas";
 
 const UNIT_SUFFIXES: ReadonlyArray<readonly [string, string]> = [
   ["_ohm", "Ω"],

@@ -11,7 +11,7 @@ import {
   listRuleSets,
   type RuleSetHistoryRow,
 } from "@/lib/rules/queries";
-import { institutionTimeZone } from "@/lib/permits/queries";
+import { institutionTimeZone } from "@/lib/settings/queries";
 import { todayIn } from "@/lib/permits/dates";
 import { editableSettings } from "@/lib/settings/queries";
 import { ChainRulesForm, PermitPrefixForm, ReminderForm, TierRulesForm } from "./rules-forms";

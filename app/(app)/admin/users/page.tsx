@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { Card } from "@/app/_components/card";
 import { PageHeader } from "@/app/_components/page-header";
 import { formatDateTime } from "@/app/_components/format";
-import { institutionTimeZone } from "@/lib/permits/queries";
+import { institutionTimeZone } from "@/lib/settings/queries";
 import { requirePageUser } from "@/lib/auth/guards";
 import { listDepartments, listPendingInvitations, listUsers } from "@/lib/users/queries";
 import { InviteForm } from "./invite-form";

@@ -11,7 +11,7 @@ import { PageHeader } from "@/app/_components/page-header";
 import type { Tier } from "@/app/_components/tier";
 import { TierBadge } from "@/app/_components/tier-badge";
 import { getApparatus } from "@/lib/apparatus/queries";
-import { institutionTimeZone } from "@/lib/permits/queries";
+import { institutionTimeZone } from "@/lib/settings/queries";
 import { GAP_FIELDS, SOURCE_FIELDS } from "@/lib/apparatus/setup-text";
 import { can, requirePageUser } from "@/lib/auth/guards";
 import { assessSetup, BASE_UNIT, formatQuantity, upgradeSetup, type EnergySource } from "@/lib/hazard";

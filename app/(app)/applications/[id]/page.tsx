@@ -14,7 +14,7 @@ import { TierBadge } from "@/app/_components/tier-badge";
 import { pinLabel, pinOptions } from "@/lib/applications/pins";
 import { requirePageUser } from "@/lib/auth/guards";
 import { defaultValidity, eventDaysOf, todayIn } from "@/lib/permits/dates";
-import { institutionTimeZone } from "@/lib/permits/queries";
+import { institutionTimeZone } from "@/lib/settings/queries";
 import { getApplicationRecord } from "@/lib/review/queries";
 import { repliesFor } from "@/lib/review/replies";
 import { approvalRequirements, audienceFactsOf, describeChain, STEP_ROLE_LABELS, tierChain } from "@/lib/rules/chain";

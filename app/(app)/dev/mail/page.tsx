@@ -4,7 +4,7 @@ import { notFound } from "next/navigation";
 import { Alert } from "@/app/_components/alert";
 import { Card } from "@/app/_components/card";
 import { DataTable, type Column } from "@/app/_components/data-table";
-import { institutionTimeZone } from "@/lib/permits/queries";
+import { institutionTimeZone } from "@/lib/settings/queries";
 import { formatDateTime } from "@/app/_components/format";
 import { PageHeader } from "@/app/_components/page-header";
 import { Stat, StatList } from "@/app/_components/stat";
