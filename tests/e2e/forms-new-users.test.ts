@@ -402,7 +402,9 @@ describe("issue 20: forms that keep, explain and follow the user", () => {
         .where(and(eq(auditEvents.entityId, application.id), eq(auditEvents.action, "application.comment_replied")));
       expect(audited).toHaveLength(1);
 
-      // Resubmitted: the return is history, not a current instruction.
+      // Resubmitted: the return is history, not a current instruction. (The form sends a pending save as it
+      // is left; opening it again before that save has landed would meet the draft "saved elsewhere".)
+      await page.waitForLoadState("networkidle");
       await page.goto(`/applications/${application.id}/edit?step=6`);
       await page.getByLabel(/I confirm that this application describes the set-up/).check();
       await page.getByRole("button", { name: "Submit for review" }).click();
