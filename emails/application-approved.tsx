@@ -1,7 +1,8 @@
 import { appLink, formatDay, tierFact, type EmailBuilder } from "./context";
 
 // To the permit holder: the application is approved and the permit is issued. The permit PDF and a
-// calendar file with the validity window are attached (lib/mail/compose.ts).
+// calendar file with the validity window are attached (lib/mail/compose.ts); the bench card is linked in
+// both paper sizes (issue 20, item 4: nothing led to it).
 export const applicationApprovedEmail: EmailBuilder<"application_approved"> = (data, ctx) => ({
   preheader: `Permit ${data.permitNumber} is valid from ${formatDay(data.validFrom)} to ${formatDay(data.validTo)}.`,
   heading: `Permit ${data.permitNumber} issued`,
@@ -26,6 +27,16 @@ export const applicationApprovedEmail: EmailBuilder<"application_approved"> = (d
       ? [{ type: "list" as const, label: "Conditions of this permit", items: data.conditions }]
       : []),
     { type: "action", label: "Open the permit", url: appLink(ctx, `/permits/${data.permitId}`) },
+    {
+      type: "text",
+      text: "Fix the bench card beside the apparatus: it carries the hazard, the discharge steps and the emergency contacts for the people at the bench.",
+    },
+    { type: "action", label: "Bench card (A4)", url: appLink(ctx, `/permits/${data.permitId}/bench-card`) },
+    {
+      type: "action",
+      label: "Bench card (US Letter)",
+      url: appLink(ctx, `/permits/${data.permitId}/bench-card?size=letter`),
+    },
     {
       type: "text",
       text: "The attached calendar file adds the validity window to your calendar. Benchclear reminds you before the permit ends.",

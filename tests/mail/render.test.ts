@@ -141,6 +141,18 @@ describe("e-mail bodies", () => {
     expect(holder).toContain("you hold this permit");
   });
 
+  // Issue 20, item 4: the bench card could not be found; the approval e-mail now links it in both sizes.
+  it("offers the bench card in A4 and US Letter with the approval", () => {
+    const approval = MESSAGES.find((m) => m.kind === "application_approved")!;
+    const { html, text } = renderEmail(approval, ctx);
+    for (const path of [`/permits/${permitId}/bench-card`, `/permits/${permitId}/bench-card?size=letter`]) {
+      expect(text).toContain(`${ctx.appUrl}${path}`);
+      expect(html).toContain(`href="${ctx.appUrl}${path.replace("&", "&amp;")}"`);
+    }
+    expect(text).toContain("Bench card (A4)");
+    expect(text).toContain("Bench card (US Letter)");
+  });
+
   it("prints permit days without a time zone shift and instants in the institution's zone", () => {
     const approved = renderEmail(MESSAGES[4], ctx).text;
     expect(approved).toContain("1 May 2026");
