@@ -99,7 +99,7 @@ const LIB_DOMAINS = {
     "verify",
   ],
   // Delivering mail renders emails/ and attaches permit PDFs and calendar files.
-  mail: ["audit", "calendar", "env", "errors", "outbox", "pdf", "settings", "users/invitation-token.ts"],
+  mail: ["audit", "calendar", "env", "errors", "outbox", "pdf", "permits", "settings", "users/invitation-token.ts"],
   jobs: ["audit", "env", "errors", "mail", "outbox", "permits", "rules", "settings"],
 };
 // emails/ renders messages the outbox holds; it may use these lib domains and nothing else.

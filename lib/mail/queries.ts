@@ -1,6 +1,7 @@
 import "server-only";
 import { and, count, desc, eq, inArray, sql } from "drizzle-orm";
 import { db } from "@/db";
+import { joinPermitBase } from "@/lib/permits/base-query";
 import { applicationRevisions, applications, departments, mailOutbox, permits, users } from "@/db/schema";
 import type { DbOrTx } from "@/lib/audit";
 import { readInstitutionSettings } from "@/lib/settings/queries";
@@ -39,26 +40,26 @@ export type PermitMailFacts = {
 /** The permit facts a mail about it prints and attaches, or null when the permit is gone. */
 export async function permitMailFacts(permitId: string, tx: DbOrTx = db): Promise<PermitMailFacts | null> {
   if (!/^[0-9a-f-]{36}$/i.test(permitId)) return null;
-  const [row] = await tx
-    .select({
-      id: permits.id,
-      number: permits.number,
-      tier: permits.tier,
-      state: permits.state,
-      validFrom: permits.validFrom,
-      validTo: permits.validTo,
-      conditions: permits.conditions,
-      title: applications.title,
-      room: sql<string | null>`${applicationRevisions.content} -> 'event' ->> 'room'`,
-      holderEmail: users.email,
-      namedUserIds: applications.namedUserIds,
-      updatedAt: permits.updatedAt,
-      version: permits.version,
-    })
-    .from(permits)
-    .innerJoin(applications, eq(applications.id, permits.applicationId))
-    .innerJoin(applicationRevisions, eq(applicationRevisions.id, permits.revisionId))
-    .innerJoin(users, eq(users.id, permits.holderId))
+  const [row] = await joinPermitBase(
+    tx
+      .select({
+        id: permits.id,
+        number: permits.number,
+        tier: permits.tier,
+        state: permits.state,
+        validFrom: permits.validFrom,
+        validTo: permits.validTo,
+        conditions: permits.conditions,
+        title: applications.title,
+        room: sql<string | null>`${applicationRevisions.content} -> 'event' ->> 'room'`,
+        holderEmail: users.email,
+        namedUserIds: applications.namedUserIds,
+        updatedAt: permits.updatedAt,
+        version: permits.version,
+      })
+      .from(permits)
+      .$dynamic(),
+  )
     .where(eq(permits.id, permitId))
     .limit(1);
   return row ?? null;

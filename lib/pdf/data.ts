@@ -1,6 +1,7 @@
 import "server-only";
 import { and, asc, eq, inArray } from "drizzle-orm";
 import { db } from "@/db";
+import { joinPermitBase } from "@/lib/permits/base-query";
 import { applicationRevisions, applications, decisions, permits, users, type PermitState } from "@/db/schema";
 import { isRole, ROLE_LABELS } from "@/lib/roles";
 import { env } from "@/lib/env";
@@ -67,29 +68,29 @@ function roleLabel(role: string): string {
 }
 
 export async function loadPrintData(permitId: string, now: Date = new Date()): Promise<PrintData> {
-  const [row] = await db
-    .select({
-      number: permits.number,
-      state: permits.state,
-      tier: permits.tier,
-      validFrom: permits.validFrom,
-      validTo: permits.validTo,
-      validityReason: permits.validityReason,
-      issuedAt: permits.issuedAt,
-      revokedAt: permits.revokedAt,
-      revokedReason: permits.revokedReason,
-      conditions: permits.conditions,
-      verificationCode: permits.verificationCode,
-      revisionId: permits.revisionId,
-      holderName: users.name,
-      title: applications.title,
-      content: applicationRevisions.content,
-      assessment: applicationRevisions.assessment,
-    })
-    .from(permits)
-    .innerJoin(users, eq(users.id, permits.holderId))
-    .innerJoin(applications, eq(applications.id, permits.applicationId))
-    .innerJoin(applicationRevisions, eq(applicationRevisions.id, permits.revisionId))
+  const [row] = await joinPermitBase(
+    db
+      .select({
+        number: permits.number,
+        state: permits.state,
+        tier: permits.tier,
+        validFrom: permits.validFrom,
+        validTo: permits.validTo,
+        validityReason: permits.validityReason,
+        issuedAt: permits.issuedAt,
+        revokedAt: permits.revokedAt,
+        revokedReason: permits.revokedReason,
+        conditions: permits.conditions,
+        verificationCode: permits.verificationCode,
+        revisionId: permits.revisionId,
+        holderName: users.name,
+        title: applications.title,
+        content: applicationRevisions.content,
+        assessment: applicationRevisions.assessment,
+      })
+      .from(permits)
+      .$dynamic(),
+  )
     .where(eq(permits.id, permitId))
     .limit(1);
   if (!row) throw notFound("That permit");

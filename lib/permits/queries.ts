@@ -1,6 +1,7 @@
 import "server-only";
 import { and, asc, count, desc, eq, inArray, or, sql, type SQL } from "drizzle-orm";
 import { db } from "@/db";
+import { joinPermitBase } from "./base-query";
 import {
   applicationRevisions,
   applications,
@@ -133,25 +134,25 @@ export async function listPermits(user: CurrentUser, filters: PermitListFilters 
   }
   if (ids.length === 0) return { rows: [] as PermitListRow[], total, page, pageSize: pageSize, today };
 
-  const details = await db
-    .select({
-      id: permits.id,
-      number: permits.number,
-      tier: permits.tier,
-      state: effectiveStateSql(today),
-      validFrom: permits.validFrom,
-      validTo: permits.validTo,
-      applicationId: permits.applicationId,
-      title: applications.title,
-      room: sql<string | null>`${applicationRevisions.content} -> 'event' ->> 'room'`,
-      holderName: users.name,
-      departmentName: departments.name,
-      renewedByApplicationId: permits.renewedByApplicationId,
-    })
-    .from(permits)
-    .innerJoin(applications, eq(applications.id, permits.applicationId))
-    .innerJoin(applicationRevisions, eq(applicationRevisions.id, permits.revisionId))
-    .innerJoin(users, eq(users.id, permits.holderId))
+  const details = await joinPermitBase(
+    db
+      .select({
+        id: permits.id,
+        number: permits.number,
+        tier: permits.tier,
+        state: effectiveStateSql(today),
+        validFrom: permits.validFrom,
+        validTo: permits.validTo,
+        applicationId: permits.applicationId,
+        title: applications.title,
+        room: sql<string | null>`${applicationRevisions.content} -> 'event' ->> 'room'`,
+        holderName: users.name,
+        departmentName: departments.name,
+        renewedByApplicationId: permits.renewedByApplicationId,
+      })
+      .from(permits)
+      .$dynamic(),
+  )
     .innerJoin(departments, eq(departments.id, applications.departmentId))
     .where(inArray(permits.id, ids));
   const byId = new Map(details.map((r) => [r.id, r as PermitListRow]));
@@ -192,51 +193,51 @@ export type PermitDetail = NonNullable<Awaited<ReturnType<typeof getPermit>>>;
 /** One permit with its application, revision and signatures, or null when missing or not visible. */
 export async function getPermit(user: CurrentUser, id: string, now = new Date()) {
   const today = await institutionToday(now);
-  const [row] = await db
-    .select({
-      permit: {
-        id: permits.id,
-        number: permits.number,
-        year: permits.year,
-        tier: permits.tier,
-        state: permits.state,
-        validFrom: permits.validFrom,
-        validTo: permits.validTo,
-        validityReason: permits.validityReason,
-        conditions: permits.conditions,
-        verificationCode: permits.verificationCode,
-        issuedAt: permits.issuedAt,
-        revokedAt: permits.revokedAt,
-        revokedReason: permits.revokedReason,
-        renewedByApplicationId: permits.renewedByApplicationId,
-        version: permits.version,
-        holderId: permits.holderId,
-        revisionId: permits.revisionId,
-        applicationId: permits.applicationId,
-      },
-      application: {
-        id: applications.id,
-        seq: applications.seq,
-        title: applications.title,
-        applicantId: applications.applicantId,
-        namedUserIds: applications.namedUserIds,
-        departmentId: applications.departmentId,
-        chainRulesVersion: applications.chainRulesVersion,
-      },
-      revision: {
-        id: applicationRevisions.id,
-        revision: applicationRevisions.revision,
-        content: applicationRevisions.content,
-        assessment: applicationRevisions.assessment,
-        contentHash: applicationRevisions.contentHash,
-      },
-      holderName: users.name,
-      departmentName: departments.name,
-    })
-    .from(permits)
-    .innerJoin(applications, eq(applications.id, permits.applicationId))
-    .innerJoin(applicationRevisions, eq(applicationRevisions.id, permits.revisionId))
-    .innerJoin(users, eq(users.id, permits.holderId))
+  const [row] = await joinPermitBase(
+    db
+      .select({
+        permit: {
+          id: permits.id,
+          number: permits.number,
+          year: permits.year,
+          tier: permits.tier,
+          state: permits.state,
+          validFrom: permits.validFrom,
+          validTo: permits.validTo,
+          validityReason: permits.validityReason,
+          conditions: permits.conditions,
+          verificationCode: permits.verificationCode,
+          issuedAt: permits.issuedAt,
+          revokedAt: permits.revokedAt,
+          revokedReason: permits.revokedReason,
+          renewedByApplicationId: permits.renewedByApplicationId,
+          version: permits.version,
+          holderId: permits.holderId,
+          revisionId: permits.revisionId,
+          applicationId: permits.applicationId,
+        },
+        application: {
+          id: applications.id,
+          seq: applications.seq,
+          title: applications.title,
+          applicantId: applications.applicantId,
+          namedUserIds: applications.namedUserIds,
+          departmentId: applications.departmentId,
+          chainRulesVersion: applications.chainRulesVersion,
+        },
+        revision: {
+          id: applicationRevisions.id,
+          revision: applicationRevisions.revision,
+          content: applicationRevisions.content,
+          assessment: applicationRevisions.assessment,
+          contentHash: applicationRevisions.contentHash,
+        },
+        holderName: users.name,
+        departmentName: departments.name,
+      })
+      .from(permits)
+      .$dynamic(),
+  )
     .innerJoin(departments, eq(departments.id, applications.departmentId))
     .where(and(eq(permits.id, id), permitScope(user)))
     .limit(1);
@@ -280,27 +281,27 @@ export async function getPermit(user: CurrentUser, id: string, now = new Date())
 export async function permitsForExport(user: CurrentUser, now = new Date()) {
   const today = await institutionToday(now);
   const state = effectiveStateSql(today);
-  return db
-    .select({
-      number: permits.number,
-      state,
-      tier: permits.tier,
-      validFrom: permits.validFrom,
-      validTo: permits.validTo,
-      title: applications.title,
-      room: sql<string | null>`${applicationRevisions.content} -> 'event' ->> 'room'`,
-      holderName: users.name,
-      holderEmail: users.email,
-      departmentName: departments.name,
-      conditions: permits.conditions,
-      issuedAt: permits.issuedAt,
-      revokedAt: permits.revokedAt,
-      revokedReason: permits.revokedReason,
-    })
-    .from(permits)
-    .innerJoin(applications, eq(applications.id, permits.applicationId))
-    .innerJoin(applicationRevisions, eq(applicationRevisions.id, permits.revisionId))
-    .innerJoin(users, eq(users.id, permits.holderId))
+  return joinPermitBase(
+    db
+      .select({
+        number: permits.number,
+        state,
+        tier: permits.tier,
+        validFrom: permits.validFrom,
+        validTo: permits.validTo,
+        title: applications.title,
+        room: sql<string | null>`${applicationRevisions.content} -> 'event' ->> 'room'`,
+        holderName: users.name,
+        holderEmail: users.email,
+        departmentName: departments.name,
+        conditions: permits.conditions,
+        issuedAt: permits.issuedAt,
+        revokedAt: permits.revokedAt,
+        revokedReason: permits.revokedReason,
+      })
+      .from(permits)
+      .$dynamic(),
+  )
     .innerJoin(departments, eq(departments.id, applications.departmentId))
     .where(permitScope(user))
     .orderBy(desc(permits.year), desc(permits.seq));
