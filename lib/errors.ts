@@ -14,6 +14,7 @@ export const ERROR_STATUS = {
   payload_too_large: 413,
   invalid: 422,
   rate_limited: 429,
+  unavailable: 503,
 } as const;
 
 export type ErrorCode = keyof typeof ERROR_STATUS;
@@ -71,3 +72,32 @@ export function errorBody(error: AppError) {
     },
   };
 }
+
+// PostgreSQL out of reach (restarting, failing over, network): the request is answered 503 with
+// Retry-After instead of a bare 500, and the pool reconnects by itself once the server is back.
+// Recognised by the driver's socket errors and SQLSTATE classes 08 (connection exception) and 57P
+// (operator intervention: admin_shutdown, crash_shutdown, cannot_connect_now); drizzle wraps the
+// driver's error, so the whole cause chain is looked at.
+const UNREACHABLE_CODES = new Set(["ECONNREFUSED", "ECONNRESET", "EPIPE", "ETIMEDOUT", "ENOTCONN", "EHOSTUNREACH"]);
+const UNREACHABLE_MESSAGES =
+  /Connection terminated|terminating connection due to administrator command|the database system is (starting up|shutting down|in recovery mode)|timeout exceeded when trying to connect|Client has encountered a connection error|Connection ended unexpectedly/i;
+
+/** Seconds a client is asked to wait when the database is out of reach. */
+export const DATABASE_RETRY_AFTER_SECONDS = 5;
+
+export function isDatabaseUnavailable(error: unknown): boolean {
+  let current: unknown = error;
+  for (let depth = 0; current && depth < 6; depth++) {
+    const e = current as { code?: unknown; message?: unknown; cause?: unknown };
+    const code = typeof e.code === "string" ? e.code : "";
+    if (UNREACHABLE_CODES.has(code) || code.startsWith("08") || /^57P0[123]$/.test(code)) return true;
+    if (typeof e.message === "string" && UNREACHABLE_MESSAGES.test(e.message)) return true;
+    current = e.cause;
+  }
+  return false;
+}
+
+export const databaseUnavailable = () =>
+  new AppError("unavailable", "The database is out of reach for a moment. Try again in a few seconds.", {
+    retryAfterSeconds: DATABASE_RETRY_AFTER_SECONDS,
+  });

@@ -4,7 +4,7 @@
 // every row has its revisions, audit events and queued mail. Run by scripts/demo-data.ts once; invented data.
 import { and, eq, sql } from "drizzle-orm";
 import { getDb } from "@/db";
-import { auditEvents, permits, users } from "@/db/schema";
+import { auditEvents, decisions, permits, users } from "@/db/schema";
 import { writeAudit } from "@/lib/audit";
 import { createApparatus } from "@/lib/apparatus/actions";
 import { setupToText } from "@/lib/apparatus/setup-text";
@@ -12,6 +12,7 @@ import { createDraft, saveDraft, submitApplication, withdrawApplication } from "
 import { currentUserColumns, type CurrentUser } from "@/lib/auth/current-user";
 import { assessSetup, requiredControls, type SetupInput } from "@/lib/hazard";
 import { revokePermit } from "@/lib/permits/revoke";
+import { decisionHmac } from "@/lib/records/seal";
 import { decide } from "@/lib/review/decide";
 import { currentChainRules } from "@/lib/rules/queries";
 import { tierChain } from "@/lib/rules/chain";
@@ -309,15 +310,25 @@ export async function seedStory(password: string): Promise<boolean> {
   });
 
   // Demo dates only: move two validity windows so the dashboard shows a permit ending this week and
-  // one that has expired. Real permits get their window from the approving officer.
-  await db
-    .update(permits)
-    .set({ validFrom: isoDay(-25), validTo: isoDay(4) })
-    .where(eq(permits.applicationId, ending));
-  await db
-    .update(permits)
-    .set({ validFrom: isoDay(-100), validTo: isoDay(-10), state: "expired" })
-    .where(eq(permits.applicationId, lapsed));
+  // one that has expired. Real permits get their window from the approving officer. A permit's window
+  // is sealed in its approval (lib/records/seal.ts), so the approval is re-dated and re-sealed with
+  // it; this runs as the owner role with the key, which the app's role could not do.
+  const redate = async (applicationId: string, validFrom: string, validTo: string, expired = false) => {
+    await db
+      .update(permits)
+      .set({ validFrom, validTo, ...(expired ? { state: "expired" as const } : {}) })
+      .where(eq(permits.applicationId, applicationId));
+    const [approval] = await db
+      .select()
+      .from(decisions)
+      .where(and(eq(decisions.applicationId, applicationId), eq(decisions.kind, "approve")));
+    if (approval) {
+      const hmac = decisionHmac({ ...approval, validFrom, validTo });
+      await db.update(decisions).set({ validFrom, validTo, hmac }).where(eq(decisions.id, approval.id));
+    }
+  };
+  await redate(ending, isoDay(-25), isoDay(4));
+  await redate(lapsed, isoDay(-100), isoDay(-10), true);
   const [toRevoke] = await db
     .select({ id: permits.id, version: permits.version })
     .from(permits)

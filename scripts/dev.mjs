@@ -3,7 +3,9 @@
 // on http://localhost:3000 and the local inbox. Ctrl-C stops what it started.
 import {
   bin,
+  appDatabaseUrl,
   databaseUrl,
+  ensureAppRole,
   ensureDatabase,
   ensureNodeModules,
   fail,
@@ -28,18 +30,21 @@ try {
   registerUser();
   await pgUp(local);
   ensureDatabase(local, "benchclear");
+  ensureAppRole(local);
   const env = {
     ...process.env,
     ...local,
     NODE_ENV: "development",
-    DATABASE_URL: local.DATABASE_URL ?? databaseUrl(local, "benchclear"),
+    // The app connects as its own role; migrations and the demo data run as the owner.
+    DATABASE_URL: local.DATABASE_URL ?? appDatabaseUrl(local, "benchclear"),
+    DATABASE_OWNER_URL: local.DATABASE_OWNER_URL ?? databaseUrl(local, "benchclear"),
     APP_URL: `http://localhost:${PORT}`,
     AUTH_TRUST_HOST: "true",
     SMTP_PORT: String(MAIL_PORT),
     NEXT_TELEMETRY_DISABLED: "1",
   };
   run(bin("tsx"), ["scripts/migrate.ts"], { env });
-  run(bin("tsx"), ["scripts/demo-data.ts"], { env });
+  run(bin("tsx"), ["scripts/demo-data.ts"], { env: { ...env, DATABASE_URL: env.DATABASE_OWNER_URL } });
   await requireFreePort(PORT, "the dev server", "PORT");
   await requireFreePort(MAIL_PORT, "the local inbox", "SMTP_PORT");
   startChild("local inbox", bin("tsx"), ["scripts/local-inbox.ts"], {

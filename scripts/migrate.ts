@@ -1,11 +1,12 @@
-// Applies the committed migrations (db/migrate.ts) to DATABASE_URL from the environment or .env.local.
+// Applies the committed migrations (db/migrate.ts) as the owner (DATABASE_OWNER_URL, else DATABASE_URL)
+// from the environment or .env.local.
 // Run by `npm start`, `npm test` and `npm run db:migrate`.
 import { closeDb } from "@/db";
 import { runMigrations } from "@/db/migrate";
 import { loadLocalEnv } from "@/scripts/lib/load-env";
 
 loadLocalEnv();
-runMigrations()
+runMigrations({ log: (line) => console.log(line) })
   .then(() => console.log("  migrations applied"))
   .catch((error: unknown) => {
     console.error("migration failed:", error instanceof Error ? error.message : error);

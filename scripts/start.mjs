@@ -4,7 +4,9 @@
 // what it started.
 import {
   bin,
+  appDatabaseUrl,
   databaseUrl,
+  ensureAppRole,
   ensureBuild,
   ensureDatabase,
   ensureNodeModules,
@@ -51,10 +53,13 @@ async function main() {
 
   await pgUp(local);
   ensureDatabase(local, "benchclear");
+  ensureAppRole(local);
   const appEnv = {
     ...process.env,
     ...local,
-    DATABASE_URL: local.DATABASE_URL ?? databaseUrl(local, "benchclear"),
+    // The app connects as its own role; migrations and the demo data run as the owner.
+    DATABASE_URL: local.DATABASE_URL ?? appDatabaseUrl(local, "benchclear"),
+    DATABASE_OWNER_URL: local.DATABASE_OWNER_URL ?? databaseUrl(local, "benchclear"),
     APP_URL: local.APP_URL ?? `http://localhost:${PORT}`,
     AUTH_URL: local.AUTH_URL ?? local.APP_URL ?? `http://localhost:${PORT}`,
     AUTH_TRUST_HOST: "true",
@@ -69,7 +74,9 @@ async function main() {
   step("Applying database migrations");
   run(bin("tsx"), ["scripts/migrate.ts"], { env: { ...appEnv, NODE_ENV: "development" } });
   step("Seeding demo data (skipped where it is already there)");
-  run(bin("tsx"), ["scripts/demo-data.ts"], { env: { ...appEnv, NODE_ENV: "development" } });
+  run(bin("tsx"), ["scripts/demo-data.ts"], {
+    env: { ...appEnv, NODE_ENV: "development", DATABASE_URL: appEnv.DATABASE_OWNER_URL },
+  });
 
   ensureBuild(appEnv);
 

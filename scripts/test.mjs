@@ -7,7 +7,9 @@ import path from "node:path";
 import {
   bin,
   dataDir,
+  appDatabaseUrl,
   databaseUrl,
+  ensureAppRole,
   ensureBuild,
   ensureDatabase,
   ensureDebianPackages,
@@ -87,13 +89,17 @@ async function main() {
   await pgUp(local);
   step(`Creating a fresh test database (${TEST_DB})`);
   ensureDatabase(local, TEST_DB, { fresh: true });
+  ensureAppRole(local);
 
   const baseUrl = `http://127.0.0.1:${TEST_PORT}`;
   const testEnv = {
     ...process.env,
     ...local,
     NODE_ENV: "test",
-    DATABASE_URL: databaseUrl(local, TEST_DB),
+    // The code under test connects as the app's role; migrations and fixtures that need more
+    // (tests/support/db.ts ownerDb) as the owner.
+    DATABASE_URL: appDatabaseUrl(local, TEST_DB),
+    DATABASE_OWNER_URL: databaseUrl(local, TEST_DB),
     APP_URL: baseUrl,
     AUTH_URL: baseUrl,
     AUTH_TRUST_HOST: "true",

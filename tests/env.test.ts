@@ -4,6 +4,7 @@ import { EnvError, parseEnv } from "@/lib/env";
 const valid = {
   DATABASE_URL: "postgres://u:p@127.0.0.1:54329/benchclear",
   AUTH_SECRET: "x".repeat(32),
+  DECISION_HMAC_KEY: "k".repeat(32),
 };
 
 describe("environment validation", () => {
@@ -30,6 +31,13 @@ describe("environment validation", () => {
 
   it("reports a missing DATABASE_URL by name", () => {
     expect(() => parseEnv({ AUTH_SECRET: "y".repeat(40) })).toThrow(/DATABASE_URL is required/);
+  });
+
+  it("requires a decision seal key of 32+ characters (issue 14)", () => {
+    expect(() => parseEnv({ ...valid, DECISION_HMAC_KEY: undefined })).toThrow(/DECISION_HMAC_KEY is required/);
+    expect(() => parseEnv({ ...valid, DECISION_HMAC_KEY: "short" })).toThrow(
+      /DECISION_HMAC_KEY must be at least 32 characters/,
+    );
   });
 
   it("treats empty strings as unset", () => {

@@ -6,4 +6,6 @@ afterAll(async () => {
   // Close the pool a test file opened, so vitest can end the worker cleanly.
   const { closeDb } = await import("@/db");
   await closeDb();
+  const { closeOwnerDb } = await import("./support/db");
+  await closeOwnerDb();
 });

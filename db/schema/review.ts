@@ -52,6 +52,9 @@ export const decisions = pgTable(
     validTo: date({ mode: "string" }),
     validityReason: text(),
     signedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+    // HMAC over the decision (lib/records/seal.ts). Added nullable by 0008_roles_and_seals; db/migrate.ts
+    // seals older rows with the key and then sets NOT NULL.
+    hmac: text().notNull(),
   },
   (t) => [
     index("decision_application_idx").on(t.applicationId, t.signedAt),

@@ -88,7 +88,21 @@ export async function addAttachment(user: CurrentUser, applicationId: string, fi
   const sha256 = crypto.createHash("sha256").update(file.bytes).digest("hex");
   const storageKey = newKey("attachments", type.ext);
   const storage = await getStorage();
-  await storage.put(storageKey, file.bytes, type.mime);
+  try {
+    await storage.put(storageKey, file.bytes, type.mime);
+  } catch (error) {
+    // The file store refused (full, read-only, out of reach): no row was written, and whatever part
+    // of the file may have been stored is removed, so nothing is left half-saved.
+    console.error(`[attachments] storage refused ${storageKey}:`, error instanceof Error ? error.message : error);
+    await storage.delete(storageKey).catch(() => undefined);
+    throw new AppError(
+      "unavailable",
+      "The file store could not save this file, so nothing was attached. Try again later.",
+      {
+        retryAfterSeconds: 30,
+      },
+    );
+  }
   try {
     return await db.transaction(async (tx) => {
       await lockEditable(tx, user, applicationId);

@@ -22,6 +22,8 @@ export const PERMISSIONS = {
   "audit.export": ["safety_officer"],
   "admin.users": ["admin"],
   "admin.rules": ["admin"],
+  // Walking the audit chain and the decision seals (/admin/records).
+  "admin.records": ["admin"],
   "dev.mail": ["admin"],
 } as const satisfies Record<string, readonly Role[]>;
 

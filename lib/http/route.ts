@@ -4,7 +4,15 @@ import { env } from "@/lib/env";
 import { can, getCurrentUser, type CurrentUser } from "@/lib/auth/guards";
 import type { Permission } from "@/lib/auth/permissions";
 import { DEFAULT_BODY_LIMIT_BYTES, discardBody, readBodyBytes, readJsonBody } from "./body";
-import { AppError, errorBody, forbidden, fromZodError, unauthenticated } from "@/lib/errors";
+import {
+  AppError,
+  databaseUnavailable,
+  errorBody,
+  forbidden,
+  fromZodError,
+  isDatabaseUnavailable,
+  unauthenticated,
+} from "@/lib/errors";
 
 // Every route handler is built with route(): one order for all of them — same-origin and content-type
 // checks for mutations, authenticate (401), permission (403), parse query and body with zod (422
@@ -58,6 +66,10 @@ export function errorResponse(error: unknown): Response {
     const headers: HeadersInit = {};
     if (error.details.retryAfterSeconds) headers["Retry-After"] = String(error.details.retryAfterSeconds);
     return Response.json(errorBody(error), { status: error.status, headers });
+  }
+  if (isDatabaseUnavailable(error)) {
+    console.error("[route] database unavailable:", error instanceof Error ? error.message : error);
+    return errorResponse(databaseUnavailable());
   }
   console.error("[route] unexpected error:", error);
   return Response.json({ error: { code: "internal", message: "Something went wrong on our side." } }, { status: 500 });

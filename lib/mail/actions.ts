@@ -41,7 +41,9 @@ import {
 // failed, logged, and listed on /dev/mail. Mail is never dropped silently.
 
 export const OUTBOX_POLICY = {
-  maxAttempts: 20,
+  // 30 s doubling to a 1 h cap: attempts 1–7 span about 1.06 h, then one an hour, so 80 attempts keep a
+  // row waiting for about 74 h. A relay away for a day (or a long weekend's first days) loses nothing.
+  maxAttempts: 80,
   backoff: { baseSeconds: 30, capSeconds: 3600 },
   /** A worker stuck mid-send (hung, partitioned) loses its row lock after this long. */
   lockTimeout: "300s",

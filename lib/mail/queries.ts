@@ -106,6 +106,17 @@ export type OutboxListRow = {
   updatedAt: Date;
 };
 
+/** When a queued row is next tried: the same back-off as dueCondition (null once sent or failed). */
+export function nextAttemptAt(
+  row: Pick<OutboxListRow, "status" | "attempts" | "updatedAt">,
+  backoff: { baseSeconds: number; capSeconds: number },
+): Date | null {
+  if (row.status !== "queued") return null;
+  if (row.attempts === 0) return row.updatedAt;
+  const seconds = Math.min(backoff.baseSeconds * 2 ** (row.attempts - 1), backoff.capSeconds);
+  return new Date(row.updatedAt.getTime() + seconds * 1000);
+}
+
 /** Outbox rows for /dev/mail: queued and failed first (they need attention), then the newest. */
 export async function listOutbox(
   options: { limit?: number; statuses?: OutboxStatus[] } = {},

@@ -2,6 +2,7 @@ import "server-only";
 import { and, eq, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { applicationRevisions, applications, decisions, permits } from "@/db/schema";
+import { sealDecision } from "@/lib/records/seal";
 import { writeAudit } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
 import { conflict, forbidden, notFound } from "@/lib/errors";
@@ -96,19 +97,21 @@ export async function revokePermit(actor: CurrentUser, permitId: string, body: R
     if (!updated) throw conflict("This permit changed while you were working on it. Reload it and try again.");
     const [decision] = await tx
       .insert(decisions)
-      .values({
-        applicationId: row.application.id,
-        revisionId: row.permit.revisionId,
-        kind: "revoke",
-        step: null,
-        signerId: actor.id,
-        signerName: actor.name,
-        signerRole: STEP_ROLE_LABELS.safety_officer,
-        meaning: DECISION_MEANINGS.revoke,
-        contentHash,
-        comment: body.reason,
-        signedAt: now,
-      })
+      .values(
+        sealDecision({
+          applicationId: row.application.id,
+          revisionId: row.permit.revisionId,
+          kind: "revoke",
+          step: null,
+          signerId: actor.id,
+          signerName: actor.name,
+          signerRole: STEP_ROLE_LABELS.safety_officer,
+          meaning: DECISION_MEANINGS.revoke,
+          contentHash,
+          comment: body.reason,
+          signedAt: now,
+        }),
+      )
       .returning();
     await writeAudit(tx, {
       actor,

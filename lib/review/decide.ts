@@ -12,6 +12,7 @@ import {
 } from "@/db/schema";
 import { canReadApplication } from "@/lib/applications/access";
 import { transition } from "@/lib/applications/state";
+import { sealDecision } from "@/lib/records/seal";
 import { writeAudit, type DbOrTx, type Tx } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
 import { usersWithPermission } from "@/lib/auth/holders";
@@ -221,24 +222,26 @@ export async function decide(
 
       const [decision] = await tx
         .insert(decisions)
-        .values({
-          applicationId: application.id,
-          revisionId: revision.id,
-          kind: body.kind,
-          step,
-          signerId: actor.id,
-          signerName: actor.name,
-          signerRole: STEP_ROLE_LABELS[role],
-          meaning: DECISION_MEANINGS[body.kind],
-          contentHash,
-          comment: body.comment || null,
-          pinnedTo: body.kind === "return" ? body.pinnedTo || null : null,
-          conditions: body.kind === "approve" ? conditions : null,
-          validFrom: window?.validFrom ?? null,
-          validTo: window?.validTo ?? null,
-          validityReason: window?.reason ?? null,
-          signedAt: now,
-        })
+        .values(
+          sealDecision({
+            applicationId: application.id,
+            revisionId: revision.id,
+            kind: body.kind,
+            step,
+            signerId: actor.id,
+            signerName: actor.name,
+            signerRole: STEP_ROLE_LABELS[role],
+            meaning: DECISION_MEANINGS[body.kind],
+            contentHash,
+            comment: body.comment || null,
+            pinnedTo: body.kind === "return" ? body.pinnedTo || null : null,
+            conditions: body.kind === "approve" ? conditions : null,
+            validFrom: window?.validFrom ?? null,
+            validTo: window?.validTo ?? null,
+            validityReason: window?.reason ?? null,
+            signedAt: now,
+          }),
+        )
         .returning();
 
       let permit: Permit | null = null;

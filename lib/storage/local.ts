@@ -19,8 +19,14 @@ export class LocalStorage implements Storage {
     const file = this.file(key);
     await fs.mkdir(path.dirname(file), { recursive: true });
     const tmp = `${file}.${process.pid}.${crypto.randomBytes(4).toString("hex")}.tmp`;
-    await fs.writeFile(tmp, body);
-    await fs.rename(tmp, file);
+    try {
+      await fs.writeFile(tmp, body);
+      await fs.rename(tmp, file);
+    } catch (error) {
+      // A half-written file (disk full, permissions) must not stay behind as an orphan.
+      await fs.rm(tmp, { force: true }).catch(() => undefined);
+      throw error;
+    }
   }
 
   async get(key: string): Promise<Buffer | null> {

@@ -7,6 +7,7 @@ import { effectivePermitState, todayIn } from "@/lib/permits/dates";
 import { printAudience } from "@/lib/pdf/content";
 import { AUDIENCE_LABELS } from "@/lib/applications/schemas";
 import { DEFAULT_TIME_ZONE, institutionTimeZoneSql } from "@/lib/settings/queries";
+import { permitSeals } from "@/lib/records/verify";
 import { isWellFormedCode } from "./code";
 
 // What the public verification page may show about a permit, and nothing more (product.md, security.md:
@@ -36,6 +37,8 @@ export type PublicPermit = {
   /** Calendar day of the revocation in the institution's time zone, when revoked. */
   revokedOn: string | null;
   signers: PublicSigner[];
+  /** Whether the signatures' seals, the signed content and the permit's terms were re-checked and agree. */
+  signaturesCheckOut: boolean;
 };
 
 /** The signatures a permit carries: the chain that approved its revision, and a revocation. */
@@ -48,6 +51,7 @@ export async function findPublicPermit(code: string, now: Date = new Date()): Pr
   // is the one a busy open day loads most; docs/performance.md).
   const [row] = await db
     .select({
+      id: permits.id,
       number: permits.number,
       state: permits.state,
       tier: permits.tier,
@@ -81,6 +85,9 @@ export async function findPublicPermit(code: string, now: Date = new Date()): Pr
 
   const timeZone = row.timeZone || DEFAULT_TIME_ZONE;
   const signers = row.signers;
+  // The seals, the signed content and the permit's terms, re-checked on every look-up (lib/records):
+  // the page says the signatures check out only when they do.
+  const seals = await permitSeals(db, row.id);
   const today = todayIn(timeZone, now);
   const tier = row.tier as Tier;
   return {
@@ -102,5 +109,6 @@ export async function findPublicPermit(code: string, now: Date = new Date()): Pr
     tierLabel: TIER_LABELS[tier],
     revokedOn: row.revokedAt ? todayIn(timeZone, row.revokedAt) : null,
     signers,
+    signaturesCheckOut: seals.ok,
   };
 }

@@ -3,7 +3,7 @@ import { describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { auditEvents, departments, users } from "@/db/schema";
 import { writeAudit } from "@/lib/audit";
-import { createDepartment, createUser, requireDatabase, uniq } from "../support/db";
+import { createDepartment, createUser, ownerDb, requireDatabase, uniq } from "../support/db";
 
 requireDatabase();
 
@@ -51,13 +51,14 @@ describe("database", () => {
         );
         return error?.cause?.message ?? error?.message ?? "no error";
       };
+      // As the owner role: the app's role is refused earlier, by its grants (tests/db/roles.test.ts).
       expect(
-        await refusal(getDb().update(auditEvents).set({ action: "test.forged" }).where(eq(auditEvents.id, row.id))),
+        await refusal(ownerDb().update(auditEvents).set({ action: "test.forged" }).where(eq(auditEvents.id, row.id))),
       ).toMatch(/append-only: UPDATE refused/);
-      expect(await refusal(getDb().delete(auditEvents).where(eq(auditEvents.id, row.id)))).toMatch(
+      expect(await refusal(ownerDb().delete(auditEvents).where(eq(auditEvents.id, row.id)))).toMatch(
         /append-only: DELETE refused/,
       );
-      expect(await refusal(getDb().execute(sql`TRUNCATE audit_event`))).toMatch(/append-only: TRUNCATE refused/);
+      expect(await refusal(ownerDb().execute(sql`TRUNCATE audit_event`))).toMatch(/append-only: TRUNCATE refused/);
       const [still] = await getDb().select().from(auditEvents).where(eq(auditEvents.id, row.id));
       expect(still.action).toBe("test.append");
     });

@@ -10,6 +10,7 @@ import { eq, inArray, sql } from "drizzle-orm";
 import { getDb } from "@/db";
 import { applicationRevisions, applications, decisions, institutionSettings, mailOutbox, permits } from "@/db/schema";
 import { assessSetup } from "@/lib/hazard";
+import { sealDecision } from "@/lib/records/seal";
 import { revisionHash } from "@/lib/signing/canonical";
 import { applicationContentSchema, type ApplicationContent } from "@/lib/applications/schemas";
 import { createDepartment, createUser, uniq } from "../support/db";
@@ -104,17 +105,19 @@ export async function createPermitFixture(
       .returning();
     await tx.update(applications).set({ currentRevisionId: revision.id }).where(eq(applications.id, application.id));
     if (!options.tier0) {
-      await tx.insert(decisions).values({
-        applicationId: application.id,
-        revisionId: revision.id,
-        kind: "recommend",
-        step: 1,
-        signerId: reviewer.id,
-        signerName: reviewer.name,
-        signerRole: "Reviewer",
-        meaning: "Recommended for approval",
-        contentHash,
-      });
+      await tx.insert(decisions).values(
+        sealDecision({
+          applicationId: application.id,
+          revisionId: revision.id,
+          kind: "recommend",
+          step: 1,
+          signerId: reviewer.id,
+          signerName: reviewer.name,
+          signerRole: "Reviewer",
+          meaning: "Recommended for approval",
+          contentHash,
+        }),
+      );
     }
     const counter = await tx.execute<{ last: number }>(
       sql`INSERT INTO permit_counter (year, last) VALUES (${FIXTURE_YEAR}, 1)

@@ -21,6 +21,7 @@ import {
   type User,
 } from "@/db/schema";
 import { assessSetup, type Tier } from "@/lib/hazard";
+import { sealDecision } from "@/lib/records/seal";
 import { revisionHash } from "@/lib/signing/canonical";
 import { createDepartment, createUser } from "../support/db";
 import { sampleContent, SAMPLE_SETUPS } from "./samples";
@@ -145,7 +146,10 @@ export async function createPermitFixture(
     meaning,
     contentHash,
     signedAt: new Date(Date.now() - hoursAgo * 3_600_000),
+    ...(kind === "approve" ? { validFrom, validTo, conditions: permitConditions } : {}),
   });
+  const permitConditions =
+    options.conditions ?? (tier >= 2 ? ["Run only with the doors closed and the warning lamp lit."] : []);
   const chain =
     tier === 0
       ? []
@@ -155,7 +159,7 @@ export async function createPermitFixture(
             signed("recommend", 1, reviewer, "Reviewer", "Reviewed and recommended for approval", 40),
             signed("approve", 2, officer, "Safety officer", "Approved for use as described", 30),
           ];
-  if (chain.length) await db.insert(decisions).values(chain);
+  if (chain.length) await db.insert(decisions).values(chain.map((d) => sealDecision(d)));
 
   const { year, seq, number } = await nextNumber();
   const revoked = state === "revoked";
@@ -172,7 +176,7 @@ export async function createPermitFixture(
       tier,
       validFrom,
       validTo,
-      conditions: options.conditions ?? (tier >= 2 ? ["Run only with the doors closed and the warning lamp lit."] : []),
+      conditions: permitConditions,
       verificationCode: crypto.randomBytes(32).toString("base64url"),
       issuedAt: new Date(Date.now() - 30 * 3_600_000),
       ...(revoked
@@ -187,7 +191,9 @@ export async function createPermitFixture(
   if (revoked) {
     await db
       .insert(decisions)
-      .values(signed("revoke", null, officer, "Safety officer", "Revoked: the permit no longer holds", 1));
+      .values(
+        sealDecision(signed("revoke", null, officer, "Safety officer", "Revoked: the permit no longer holds", 1)),
+      );
   }
   return { permit, application, revision, content, assessment, holder, operator, reviewer, officer, departmentId };
 }
@@ -208,17 +214,19 @@ export async function revokeFixture(
       version: sql`${permits.version} + 1`,
     })
     .where(eq(permits.id, fixture.permit.id));
-  await db.insert(decisions).values({
-    applicationId: fixture.application.id,
-    revisionId: fixture.revision.id,
-    kind: "revoke",
-    step: null,
-    signerId: fixture.officer.id,
-    signerName: fixture.officer.name,
-    signerRole: "Safety officer",
-    meaning: "Revoked: the permit no longer holds",
-    contentHash: fixture.revision.contentHash,
-  });
+  await db.insert(decisions).values(
+    sealDecision({
+      applicationId: fixture.application.id,
+      revisionId: fixture.revision.id,
+      kind: "revoke",
+      step: null,
+      signerId: fixture.officer.id,
+      signerName: fixture.officer.name,
+      signerRole: "Safety officer",
+      meaning: "Revoked: the permit no longer holds",
+      contentHash: fixture.revision.contentHash,
+    }),
+  );
 }
 
 // --- Reading PDFs back ------------------------------------------------------------------------

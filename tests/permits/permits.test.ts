@@ -11,7 +11,7 @@ import { revokePermit } from "@/lib/permits/revoke";
 import { decide } from "@/lib/review/decide";
 import { DECISION_MEANINGS } from "@/lib/signing/meanings";
 import { applicationDraftSchema } from "@/lib/applications/schemas";
-import { createUser, requireDatabase, TEST_PASSWORD } from "../support/db";
+import { createUser, ownerDb, requireDatabase, TEST_PASSWORD } from "../support/db";
 import { asActor, createSubmittedApplication, createTeam, isoDayFromNow } from "../review/support";
 
 requireDatabase();
@@ -172,7 +172,7 @@ describe("revoking a permit", () => {
   it("refuses to revoke an expired permit (409)", async () => {
     const team = await createTeam();
     const { permit } = await issuedPermit(team);
-    await getDb()
+    await ownerDb()
       .update(permits)
       .set({ validFrom: "2020-01-01", validTo: "2020-01-31" })
       .where(eq(permits.id, permit.id));
@@ -323,13 +323,13 @@ describe("who sees which permits", () => {
     const team = await createTeam();
     const { permit } = await issuedPermit(team);
     const today = todayIn("UTC");
-    await getDb()
+    await ownerDb()
       .update(permits)
       .set({ validTo: addDays(today, 5) })
       .where(eq(permits.id, permit.id));
     const soon = await expiringPermits(asActor(team.instructor), 30);
     expect(soon.map((p) => p.id)).toContain(permit.id);
-    await getDb()
+    await ownerDb()
       .update(permits)
       .set({ validTo: addDays(today, 45) })
       .where(eq(permits.id, permit.id));

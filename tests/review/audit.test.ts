@@ -3,7 +3,7 @@ import { describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { auditEvents } from "@/db/schema";
 import { decide } from "@/lib/review/decide";
-import { requireDatabase, TEST_PASSWORD } from "../support/db";
+import { ownerDb, requireDatabase, TEST_PASSWORD } from "../support/db";
 import { asActor, createSubmittedApplication, createTeam } from "./support";
 
 requireDatabase();
@@ -34,15 +34,23 @@ describe("the audit rows of signed decisions are append-only", () => {
       .where(and(eq(auditEvents.entityId, application.id), eq(auditEvents.action, "application.approved")));
     expect(row.actorName).toBe(team.reviewer.name);
 
+    // The app's role has no UPDATE or DELETE on the table at all (migration 0008)…
     expect(
       await refusal(getDb().update(auditEvents).set({ actorName: "Someone else" }).where(eq(auditEvents.id, row.id))),
+    ).toMatch(/permission denied for table audit_event/);
+    expect(await refusal(getDb().delete(auditEvents).where(eq(auditEvents.id, row.id)))).toMatch(
+      /permission denied for table audit_event/,
+    );
+    // …and even the owner, who has, is stopped by the trigger (migration 0001).
+    expect(
+      await refusal(ownerDb().update(auditEvents).set({ actorName: "Someone else" }).where(eq(auditEvents.id, row.id))),
     ).toMatch(/append-only: UPDATE refused/);
     expect(
       await refusal(
-        getDb().execute(sql`UPDATE audit_event SET data = '{}'::jsonb WHERE entity_id = ${application.id}`),
+        ownerDb().execute(sql`UPDATE audit_event SET data = '{}'::jsonb WHERE entity_id = ${application.id}`),
       ),
     ).toMatch(/append-only: UPDATE refused/);
-    expect(await refusal(getDb().delete(auditEvents).where(eq(auditEvents.id, row.id)))).toMatch(
+    expect(await refusal(ownerDb().delete(auditEvents).where(eq(auditEvents.id, row.id)))).toMatch(
       /append-only: DELETE refused/,
     );
 

@@ -1,6 +1,8 @@
 // Test fixtures in the real test database (scripts/test.mjs creates it fresh and migrates it).
 import crypto from "node:crypto";
-import { getDb } from "@/db";
+import { drizzle } from "drizzle-orm/node-postgres";
+import { Pool } from "pg";
+import { getDb, schema, type Database } from "@/db";
 import { departments, users, type Role } from "@/db/schema";
 import { hashPassword } from "@/lib/auth/password";
 
@@ -11,6 +13,30 @@ export function requireDatabase(): void {
   if (!process.env.DATABASE_URL) {
     throw new Error("DATABASE_URL is not set: run the tests with `npm test`, which starts PostgreSQL.");
   }
+}
+
+let owner: { pool: Pool; db: Database } | undefined;
+
+/**
+ * A connection as the owner role (DATABASE_OWNER_URL), for fixtures the app's role may not write:
+ * back-dating a permit's validity, for instance. The app code under test keeps using getDb(), which
+ * connects as the app's role. Closed by tests/setup.ts after each file.
+ */
+export function ownerDb(): Database {
+  if (!owner) {
+    const url = process.env.DATABASE_OWNER_URL;
+    if (!url) throw new Error("DATABASE_OWNER_URL is not set: run the tests with `npm test`.");
+    const pool = new Pool({ connectionString: url, max: 2, application_name: "benchclear-test-owner" });
+    pool.on("error", () => {});
+    owner = { pool, db: drizzle({ client: pool, schema, casing: "snake_case" }) as Database };
+  }
+  return owner.db;
+}
+
+export async function closeOwnerDb(): Promise<void> {
+  const current = owner;
+  owner = undefined;
+  await current?.pool.end();
 }
 
 export function uniq(prefix = "t"): string {

@@ -141,6 +141,20 @@ function Found({ permit }: { permit: PublicPermit }) {
           </ul>
         )}
       </section>
+      {permit.signaturesCheckOut ? (
+        <p className="mt-4 rounded-xl border border-emerald-700/30 bg-emerald-50 px-4 py-3 text-base text-stone-900">
+          <span className="font-semibold">The signatures check out.</span> Each one was re-checked against the signed
+          content and this permit&rsquo;s dates and conditions when you opened this page.
+        </p>
+      ) : (
+        <p
+          role="alert"
+          className="mt-4 rounded-xl border-2 border-red-700 bg-red-50 px-4 py-3 text-base text-stone-900"
+        >
+          <span className="font-semibold">The signatures do not check out.</span> The record of this permit does not
+          match what was signed. Do not rely on it: do not run this set-up, and tell your safety office.
+        </p>
+      )}
       <p className="mt-4 text-sm text-stone-600">
         Status on {printDay(permit.today)}, read from the permit register when you opened this page.
       </p>

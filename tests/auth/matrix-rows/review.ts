@@ -171,4 +171,6 @@ export const REVIEW_ROWS: MatrixRow[] = [
     body: () => ({ permitPrefix: "HV" }),
     expect: adminOnly(200, 401, 403),
   },
+  // Tamper evidence: the audit chain and the decision seals, walked on every view.
+  { route: "/admin/records", method: "PAGE", expect: adminOnly(200, "→/sign-in", "→/forbidden") },
 ];

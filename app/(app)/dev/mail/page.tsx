@@ -10,7 +10,8 @@ import { PageHeader } from "@/app/_components/page-header";
 import { Stat, StatList } from "@/app/_components/stat";
 import { requirePageUser } from "@/lib/auth/guards";
 import { inboxEnabled, getCaught, listCaught, type CaughtSummary } from "@/lib/mail/local-inbox";
-import { listOutbox, outboxCounts, type OutboxListRow } from "@/lib/mail/queries";
+import { OUTBOX_POLICY } from "@/lib/mail/actions";
+import { listOutbox, nextAttemptAt, outboxCounts, type OutboxListRow } from "@/lib/mail/queries";
 
 // /dev/mail — admins only, and only while the local inbox is the configured transport: every
 // message the local inbox received, with its HTML part (in a sandboxed frame: no scripts, no same-origin
@@ -70,6 +71,15 @@ const outboxColumns: Column<OutboxListRow>[] = [
   { key: "to", header: "To", cell: (r) => r.toAddress },
   { key: "subject", header: "Subject", hideBelow: "md", cell: (r) => r.subject },
   { key: "attempts", header: "Attempts", figure: true, align: "right", cell: (r) => r.attempts },
+  {
+    key: "next",
+    header: "Next try",
+    // The back-off (30 s doubling to 1 h) made visible, so an outage shows as waiting, not lost.
+    cell: (r) => {
+      const next = nextAttemptAt(r, OUTBOX_POLICY.backoff);
+      return next ? formatDateTime(next) : "—";
+    },
+  },
   { key: "error", header: "Last error", hideBelow: "lg", cell: (r) => r.lastError ?? "—" },
 ];
 

@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
+import { db } from "@/db";
 import { Alert } from "@/app/_components/alert";
 import { ButtonLink } from "@/app/_components/button";
 import { Card } from "@/app/_components/card";
@@ -16,6 +17,7 @@ import { can, requirePageUser } from "@/lib/auth/guards";
 import { daysFromTo, inclusiveDays } from "@/lib/permits/dates";
 import { getPermit } from "@/lib/permits/queries";
 import { institutionTimeZone } from "@/lib/settings/queries";
+import { permitSeals } from "@/lib/records/verify";
 import { figureRows, formatPerson } from "@/lib/review/present";
 import { printAudience, printDays } from "@/lib/pdf/content";
 import { AUDIENCE_LABELS, EVENT_KIND_LABELS, type ApplicationContent } from "@/lib/applications/schemas";
@@ -48,6 +50,8 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
   const renewalOpen = found.renewal && found.renewal.state !== "withdrawn";
   const mayRenew = isHolder && effectiveState !== "revoked" && !renewalOpen && can(user, "application.create");
   const left = daysFromTo(today, permit.validTo);
+  // Re-checked on every view: the seals, the signed content and the permit's terms (lib/records).
+  const seals = await permitSeals(db, permit.id);
 
   return (
     <>
@@ -183,6 +187,20 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
               items={found.signatures}
               empty="Self-certified: no signatures at this tier."
             />
+            {seals.ok ? (
+              <p className="mt-3 text-sm text-emerald-800">
+                <span className="font-semibold">Signatures check out:</span> each seal, the signed content and this
+                permit&rsquo;s dates and conditions agree.
+              </p>
+            ) : (
+              <p
+                role="alert"
+                className="mt-3 rounded-md border-2 border-red-700 bg-red-50 px-3 py-2 text-sm text-stone-900"
+              >
+                <span className="font-semibold">The signatures do not check out.</span> {seals.reason} Do not rely on
+                this permit; tell the safety office.
+              </p>
+            )}
           </Card>
           <Card title="Print" description="Post the permit at the bench and fix the bench card beside the apparatus.">
             <ul className="flex flex-col gap-2 text-sm" aria-label="Printable files">
