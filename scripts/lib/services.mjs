@@ -418,7 +418,7 @@ export async function pgUp(env) {
     "-t",
     "60",
     "-o",
-    `-p ${PG_PORT} -c listen_addresses=127.0.0.1 -c unix_socket_directories='' -c fsync=${env.PG_FSYNC ?? "on"} -c max_connections=200`,
+    pgServerOptions(env),
   ]);
   if (start.status !== 0) {
     const tail = fs.existsSync(log) ? fs.readFileSync(log, "utf8").split("\n").slice(-15).join("\n") : "";
@@ -436,6 +436,42 @@ async function waitForPg(bin) {
     await new Promise((r) => setTimeout(r, 250));
   }
   throw new SetupError(`PostgreSQL on 127.0.0.1:${PG_PORT} did not become ready within 30 s`);
+}
+
+function pgServerOptions(env) {
+  return `-p ${PG_PORT} -c listen_addresses=127.0.0.1 -c unix_socket_directories='' -c fsync=${env.PG_FSYNC ?? "on"} -c max_connections=200`;
+}
+
+/**
+ * For the reliability tests (tests/reliability): stops the running cluster the way an operator's
+ * restart does (fast: sessions are ended, committed work is kept) and starts it again with the same
+ * options. Each returns the milliseconds pg_ctl took.
+ */
+export function pgStopFast() {
+  const { bin, dir } = pgPaths();
+  const t0 = Date.now();
+  const result = asPostgres(path.join(bin, "pg_ctl"), ["stop", "-D", dir, "-m", "fast", "-w", "-t", "60"]);
+  if (result.status !== 0) throw new SetupError(`pg_ctl stop failed: ${result.stderr || result.stdout}`);
+  return Date.now() - t0;
+}
+
+export function pgStartAgain(env = process.env) {
+  const { bin, dir, log } = pgPaths();
+  const t0 = Date.now();
+  const result = asPostgres(path.join(bin, "pg_ctl"), [
+    "start",
+    "-D",
+    dir,
+    "-l",
+    log,
+    "-w",
+    "-t",
+    "60",
+    "-o",
+    pgServerOptions(env),
+  ]);
+  if (result.status !== 0) throw new SetupError(`pg_ctl start failed: ${result.stderr || result.stdout}`);
+  return Date.now() - t0;
 }
 
 export function pgDown() {

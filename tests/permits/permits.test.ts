@@ -11,7 +11,7 @@ import { revokePermit } from "@/lib/permits/revoke";
 import { decide } from "@/lib/review/decide";
 import { DECISION_MEANINGS } from "@/lib/signing/meanings";
 import { applicationDraftSchema } from "@/lib/applications/schemas";
-import { createUser, ownerDb, requireDatabase, TEST_PASSWORD } from "../support/db";
+import { createUser, redatePermit, requireDatabase, TEST_PASSWORD } from "../support/db";
 import { asActor, createSubmittedApplication, createTeam, isoDayFromNow } from "../review/support";
 
 requireDatabase();
@@ -172,10 +172,7 @@ describe("revoking a permit", () => {
   it("refuses to revoke an expired permit (409)", async () => {
     const team = await createTeam();
     const { permit } = await issuedPermit(team);
-    await ownerDb()
-      .update(permits)
-      .set({ validFrom: "2020-01-01", validTo: "2020-01-31" })
-      .where(eq(permits.id, permit.id));
+    await redatePermit(permit.id, { validFrom: "2020-01-01", validTo: "2020-01-31" });
     expect(
       await statusOf(
         revokePermit(asActor(team.officer), permit.id, {
@@ -323,16 +320,10 @@ describe("who sees which permits", () => {
     const team = await createTeam();
     const { permit } = await issuedPermit(team);
     const today = todayIn("UTC");
-    await ownerDb()
-      .update(permits)
-      .set({ validTo: addDays(today, 5) })
-      .where(eq(permits.id, permit.id));
+    await redatePermit(permit.id, { validTo: addDays(today, 5) });
     const soon = await expiringPermits(asActor(team.instructor), 30);
     expect(soon.map((p) => p.id)).toContain(permit.id);
-    await ownerDb()
-      .update(permits)
-      .set({ validTo: addDays(today, 45) })
-      .where(eq(permits.id, permit.id));
+    await redatePermit(permit.id, { validTo: addDays(today, 45) });
     expect((await expiringPermits(asActor(team.instructor), 30)).map((p) => p.id)).not.toContain(permit.id);
   });
 });

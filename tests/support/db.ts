@@ -3,7 +3,9 @@ import crypto from "node:crypto";
 import { drizzle } from "drizzle-orm/node-postgres";
 import { Pool } from "pg";
 import { getDb, schema, type Database } from "@/db";
-import { departments, users, type Role } from "@/db/schema";
+import { and, eq } from "drizzle-orm";
+import { decisions, departments, permits, users, type Role } from "@/db/schema";
+import { decisionHmac } from "@/lib/records/seal";
 import { hashPassword } from "@/lib/auth/password";
 
 export const TEST_PASSWORD = "correct horse battery staple 42";
@@ -31,6 +33,25 @@ export function ownerDb(): Database {
     owner = { pool, db: drizzle({ client: pool, schema, casing: "snake_case" }) as Database };
   }
   return owner.db;
+}
+
+/**
+ * Moves a permit's validity window for a test, as the owner, and re-dates and re-seals the approval
+ * that granted it (the seal covers the validity; lib/records/seal.ts), so the records still verify.
+ */
+export async function redatePermit(permitId: string, window: { validFrom?: string; validTo?: string }): Promise<void> {
+  const db = ownerDb();
+  const [permit] = await db.update(permits).set(window).where(eq(permits.id, permitId)).returning();
+  const [approval] = await db
+    .select()
+    .from(decisions)
+    .where(and(eq(decisions.revisionId, permit.revisionId), eq(decisions.kind, "approve")));
+  if (!approval) return;
+  const next = { ...approval, validFrom: permit.validFrom, validTo: permit.validTo };
+  await db
+    .update(decisions)
+    .set({ validFrom: next.validFrom, validTo: next.validTo, hmac: decisionHmac(next) })
+    .where(eq(decisions.id, approval.id));
 }
 
 export async function closeOwnerDb(): Promise<void> {
