@@ -2,7 +2,7 @@ import { eq, sql } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { applicationRevisions, auditEvents, decisions, permits } from "@/db/schema";
-import { decide } from "@/lib/review/actions";
+import { decide } from "@/lib/review/decide";
 import { ownerDb, requireDatabase, TEST_PASSWORD, uniq } from "../support/db";
 import { asActor, createSubmittedApplication, createTeam } from "../review/support";
 

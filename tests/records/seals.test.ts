@@ -6,7 +6,7 @@ import { auditEvents, decisions, permits } from "@/db/schema";
 import { writeAudit } from "@/lib/audit";
 import { decisionHmac, sealPayload } from "@/lib/records/seal";
 import { auditRowHash, permitSeals, verifyAuditChain, verifyDecisions } from "@/lib/records/verify";
-import { decide } from "@/lib/review/actions";
+import { decide } from "@/lib/review/decide";
 import { createUser, ownerDb, requireDatabase, TEST_PASSWORD, uniq } from "../support/db";
 import { http, signIn } from "../support/http";
 import { asActor, createSubmittedApplication, createTeam } from "../review/support";
