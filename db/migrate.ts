@@ -2,7 +2,7 @@
 // DATABASE_URL when there is no separate owner). Run through scripts/migrate.ts by `npm start`,
 // `npm test`, `npm run cluster` and `npm run db:migrate` as a step of its own; never by `next build`
 // and never by an app server on start. After the SQL it does what SQL alone cannot:
-//   * seals decisions made before the seal existed with DECISION_HMAC_KEY (the key is not in the
+//   * seals decisions that have none yet (made before the seal existed, or bulk-loaded) with DECISION_HMAC_KEY (the key is not in the
 //     database), then makes the seal NOT NULL, so no unsealed decision can be added afterwards;
 //   * installs pg-boss's schema and queues as the owner and gives the app's role the use of them
 //     (the app's role has no CREATE on the database).
@@ -11,12 +11,11 @@
 // connection first, so the second waits for the first and then finds nothing left to apply (the
 // migrator skips what its journal table already records, the sealing finds the column NOT NULL).
 import path from "node:path";
-import { isNull, sql } from "drizzle-orm";
 import { drizzle } from "drizzle-orm/node-postgres";
 import { migrate } from "drizzle-orm/node-postgres/migrator";
 import pg from "pg";
 import { env } from "@/lib/env";
-import { decisionHmac } from "@/lib/records/seal";
+import { decisionHmac, type SealableDecision } from "@/lib/records/seal";
 import * as schema from "./schema";
 
 export const APP_ROLE = "benchclear_app";
@@ -36,7 +35,7 @@ export async function runMigrations(
     await client.query("SELECT pg_advisory_lock($1::bigint)", [MIGRATION_LOCK_KEY]);
     const db = drizzle({ client, schema, casing: "snake_case" });
     await migrate(db, { migrationsFolder: path.join(import.meta.dirname, "migrations") });
-    await sealOlderDecisions(db, log);
+    await sealOlderDecisions(client, log);
     await installJobQueue(url, client, log);
   } finally {
     // The lock goes with the session in any case; unlocking first lets a waiting deploy go on at once.
@@ -45,20 +44,91 @@ export async function runMigrations(
   }
 }
 
-async function sealOlderDecisions(db: ReturnType<typeof drizzle<typeof schema>>, log: (line: string) => void) {
-  const nullable = await db.execute<{ is_nullable: string }>(
-    sql`SELECT is_nullable FROM information_schema.columns
-        WHERE table_schema = 'public' AND table_name = 'decision' AND column_name = 'hmac'`,
+type UnsealedRow = {
+  id: string;
+  application_id: string;
+  revision_id: string;
+  kind: SealableDecision["kind"];
+  step: number | null;
+  signer_id: string;
+  signer_name: string;
+  signer_role: string;
+  meaning: string;
+  content_hash: string;
+  conditions: string[] | null;
+  valid_from: string | null;
+  valid_to: string | null;
+  signed_at: Date;
+};
+
+/**
+ * Seals decisions that have no seal yet (rows from before migration 0007, or bulk-loaded benchmark
+ * data), then makes the column NOT NULL. Only runs while the column still allows NULL: once it is
+ * NOT NULL no unsealed row can exist, so a forged row added later is never sealed here.
+ */
+export async function sealOlderDecisions(
+  db: pg.Client | pg.Pool,
+  log: (line: string) => void = () => {},
+): Promise<number> {
+  const nullable = await db.query<{ is_nullable: string }>(
+    `SELECT is_nullable FROM information_schema.columns
+      WHERE table_schema = 'public' AND table_name = 'decision' AND column_name = 'hmac'`,
   );
-  if (nullable.rows[0]?.is_nullable !== "YES") return;
-  await db.transaction(async (tx) => {
-    const rows = await tx.select().from(schema.decisions).where(isNull(schema.decisions.hmac));
-    for (const row of rows) {
-      await tx.execute(sql`UPDATE decision SET hmac = ${decisionHmac(row)} WHERE id = ${row.id} AND hmac IS NULL`);
+  if (nullable.rows[0]?.is_nullable !== "YES") return 0;
+  const key = env().DECISION_HMAC_KEY;
+  const client = db instanceof pg.Pool ? await db.connect() : db;
+  let sealed = 0;
+  try {
+    await client.query("BEGIN");
+    // An approval's validity is that of the permit it issued.
+    await client.query(`UPDATE decision d SET valid_from = p.valid_from, valid_to = p.valid_to
+                          FROM permit p
+                         WHERE d.hmac IS NULL AND d.kind = 'approve' AND d.valid_from IS NULL
+                           AND p.revision_id = d.revision_id`);
+    for (;;) {
+      const batch = await client.query<UnsealedRow>(
+        `SELECT id, application_id, revision_id, kind, step, signer_id, signer_name, signer_role, meaning,
+                content_hash, conditions, valid_from::text, valid_to::text, signed_at
+           FROM decision WHERE hmac IS NULL LIMIT 5000`,
+      );
+      if (batch.rows.length === 0) break;
+      const hmacs = batch.rows.map((r) =>
+        decisionHmac(
+          {
+            id: r.id,
+            applicationId: r.application_id,
+            revisionId: r.revision_id,
+            kind: r.kind,
+            step: r.step,
+            signerId: r.signer_id,
+            signerName: r.signer_name,
+            signerRole: r.signer_role,
+            meaning: r.meaning,
+            contentHash: r.content_hash,
+            conditions: r.conditions,
+            validFrom: r.valid_from,
+            validTo: r.valid_to,
+            signedAt: r.signed_at,
+          },
+          key,
+        ),
+      );
+      await client.query(
+        `UPDATE decision d SET hmac = v.hmac FROM unnest($1::uuid[], $2::text[]) AS v(id, hmac) WHERE d.id = v.id`,
+        [batch.rows.map((r) => r.id), hmacs],
+      );
+      sealed += batch.rows.length;
     }
-    await tx.execute(sql`ALTER TABLE decision ALTER COLUMN hmac SET NOT NULL`);
-    log(`  sealed ${rows.length} decision(s) made before the seal existed`);
-  });
+    await client.query("ALTER TABLE decision ALTER COLUMN hmac SET NOT NULL");
+    await client.query("COMMIT");
+  } catch (error) {
+    await client.query("ROLLBACK").catch(() => undefined);
+    throw error;
+  } finally {
+    if (db instanceof pg.Pool) (client as pg.PoolClient).release();
+  }
+  log(`  sealed ${sealed} decision(s) made before the seal existed`);
+  return sealed;
 }
 
 async function installJobQueue(url: string, client: pg.Client, log: (line: string) => void) {

@@ -40,7 +40,13 @@ export function ensureBase(env: Env, base: string): { reused: boolean; seconds: 
   if (have === want) return { reused: true, seconds: 0 };
   psql(env, `DROP DATABASE IF EXISTS ${base} WITH (FORCE)`);
   psql(env, `CREATE DATABASE ${base}`);
-  const dbEnv = { ...process.env, ...env, DATABASE_URL: databaseUrlFor(env, base), NODE_ENV: "development" };
+  const dbEnv = {
+    ...process.env,
+    ...env,
+    DATABASE_URL: databaseUrlFor(env, base),
+    DATABASE_OWNER_URL: databaseUrlFor(env, base),
+    NODE_ENV: "development",
+  };
   run(bin("tsx"), ["scripts/migrate.ts"], { env: dbEnv, stdio: ["ignore", "ignore", "inherit"] });
   run(bin("tsx"), ["scripts/demo-data.ts"], { env: dbEnv, stdio: ["ignore", "ignore", "inherit"] });
   psql(env, `COMMENT ON DATABASE ${base} IS '${want}'`);
@@ -83,6 +89,12 @@ export function makeDataset(env: Env, base: string, database: string, n: number)
     { encoding: "utf8", env: { ...process.env, PGPASSWORD: env.LOCAL_PG_PASSWORD } },
   );
   if (result.status !== 0) throw new Error(`generating ${n} permits failed: ${result.stderr}`);
+  // Seal the generated decisions (db/migrate.ts does it for rows without a seal).
+  const url = databaseUrlFor(env, database);
+  run(bin("tsx"), ["scripts/migrate.ts"], {
+    env: { ...process.env, ...env, DATABASE_URL: url, DATABASE_OWNER_URL: url, NODE_ENV: "development" },
+    stdio: ["ignore", "ignore", "inherit"],
+  });
   psql(env, "VACUUM ANALYZE", database);
   const seconds = (Date.now() - started) / 1000;
   const counts: Record<string, number> = {};

@@ -2,6 +2,7 @@ import { eq, inArray } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { applications, decisions } from "@/db/schema";
+// @ts-expect-error plain JavaScript helpers shared with the start and test scripts
 import { pgStartAgain, pgStopFast } from "@/scripts/lib/services.mjs";
 import { requireDatabase } from "../support/db";
 import { http, signIn } from "../support/http";
