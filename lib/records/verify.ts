@@ -79,12 +79,13 @@ export async function verifyAuditChain(db: DbOrTx): Promise<ChainReport> {
   let firstBreak: Break | null = null;
   let after = 0;
   for (;;) {
-    // Every value as PostgreSQL's text, so nothing is lost to JavaScript's numbers or dates.
+    // Every value as PostgreSQL's text, so nothing is lost to JavaScript's numbers or dates. Ordered by
+    // the table's column (e.chain_seq), not the text output column of the same name.
     const batch = await db.execute<RawAuditRow>(sql`
       SELECT chain_seq::text, id::text,
              to_char(occurred_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"') AS at,
              actor_id::text, actor_name, action, entity_type, entity_id, data::text, prev_hash, hash
-        FROM audit_event WHERE chain_seq > ${after} ORDER BY chain_seq LIMIT ${BATCH}`);
+        FROM audit_event e WHERE e.chain_seq > ${after} ORDER BY e.chain_seq LIMIT ${BATCH}`);
     for (const r of batch.rows) {
       rows++;
       firstRowAt ??= r.at;

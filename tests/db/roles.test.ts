@@ -52,10 +52,11 @@ describe("the app's database role", () => {
   it("cannot UPDATE, DELETE or TRUNCATE audit_event, decision or application_revision", async () => {
     const permit = await approvedPermit();
     const db = getDb();
-    for (const table of ["audit_event", "decision", "application_revision"]) {
-      expect(await refusal(db.execute(sql.raw(`UPDATE ${table} SET id = id WHERE false`)))).toMatch(
-        new RegExp(`permission denied for table ${table}`),
-      );
+    const column = { audit_event: "action", decision: "comment", application_revision: "tier" };
+    for (const table of ["audit_event", "decision", "application_revision"] as const) {
+      expect(
+        await refusal(db.execute(sql.raw(`UPDATE ${table} SET ${column[table]} = ${column[table]} WHERE false`))),
+      ).toMatch(new RegExp(`permission denied for table ${table}`));
       expect(await refusal(db.execute(sql.raw(`DELETE FROM ${table} WHERE false`)))).toMatch(
         new RegExp(`permission denied for table ${table}`),
       );

@@ -9,7 +9,7 @@ import { getDb } from "@/db";
 import { writeAudit } from "@/lib/audit";
 import { verifyAuditChain } from "@/lib/records/verify";
 import { createBackup, restoreBackup } from "@/scripts/lib/backup";
-import { requireDatabase, uniq } from "../support/db";
+import { createDepartment, requireDatabase, uniq } from "../support/db";
 import { completeDraft, createDraft, pngBytes, saveDraft, signedInInstructor, upload } from "../applications/support";
 
 requireDatabase();
@@ -26,7 +26,7 @@ function sha256sum(file: string): string {
 
 describe("backup and restore", () => {
   it("a backup taken under load restores with equal row counts and file hashes", { timeout: 120_000 }, async () => {
-    const { cookie, user: instructor } = await signedInInstructor(null);
+    const { cookie, user: instructor } = await signedInInstructor((await createDepartment()).id);
     const draft = await createDraft(cookie);
     for (let i = 0; i < 3; i++) {
       const res = await upload(cookie, draft.id, pngBytes(8 + i, 8), `bench-${i}.png`, "image/png");

@@ -4,7 +4,7 @@ import { eq } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { attachments, auditEvents } from "@/db/schema";
-import { requireDatabase } from "../support/db";
+import { createDepartment, requireDatabase } from "../support/db";
 import { createDraft, pngBytes, signedInInstructor, upload } from "../applications/support";
 
 requireDatabase();
@@ -22,7 +22,7 @@ function filesUnder(dir: string): string[] {
 
 describe("the file store failing on an upload", () => {
   it("answers 503 saying nothing was attached, and leaves no orphan row or file", async () => {
-    const { cookie } = await signedInInstructor(null);
+    const { cookie } = await signedInInstructor((await createDepartment()).id);
     const draft = await createDraft(cookie);
     const dir = path.join(process.env.STORAGE_DIR!, "attachments");
     fs.mkdirSync(dir, { recursive: true });
