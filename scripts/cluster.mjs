@@ -7,9 +7,11 @@
 import path from "node:path";
 import { startCluster } from "./lib/cluster.mjs";
 import {
+  appDatabaseUrl,
   bin,
   dataDir,
   databaseUrl,
+  ensureAppRole,
   ensureBuild,
   ensureDatabase,
   ensureNodeModules,
@@ -54,11 +56,14 @@ async function main() {
 
   await pgUp(local);
   ensureDatabase(local, DATABASE);
+  ensureAppRole(local);
   const lbUrl = `http://localhost:${LB_PORT}`;
   const env = {
     ...process.env,
     ...local,
-    DATABASE_URL: databaseUrl(local, DATABASE),
+    // The servers and the worker connect as the app's role; migrations and the demo data as the owner.
+    DATABASE_URL: appDatabaseUrl(local, DATABASE),
+    DATABASE_OWNER_URL: databaseUrl(local, DATABASE),
     APP_URL: lbUrl,
     AUTH_URL: lbUrl,
     SMTP_HOST: "127.0.0.1",
@@ -93,7 +98,9 @@ async function main() {
   });
   // The demo data goes through the same S3 store as the servers, so its files are where they look.
   step("Adding the demo data (skipped where it is already there)");
-  run(bin("tsx"), ["scripts/demo-data.ts"], { env: { ...cluster.appEnv, NODE_ENV: "development" } });
+  run(bin("tsx"), ["scripts/demo-data.ts"], {
+    env: { ...cluster.appEnv, NODE_ENV: "development", DATABASE_URL: env.DATABASE_OWNER_URL },
+  });
   console.log("");
   step(`Benchclear (cluster) is ready: ${lbUrl}`);
   info("Demo sign-ins (password benchclear-demo-2026): instructor@, reviewer@, officer@, admin@benchclear.test");
