@@ -24,7 +24,11 @@ import { http, randomIp, signIn } from "../support/http";
 
 requireDatabase();
 
-const base = { DATABASE_URL: "postgres://u:p@127.0.0.1:5432/benchclear", AUTH_SECRET: "x".repeat(32) };
+const base = {
+  DATABASE_URL: "postgres://u:p@127.0.0.1:5432/benchclear",
+  AUTH_SECRET: "x".repeat(32),
+  DECISION_HMAC_KEY: "k".repeat(32),
+};
 const client = () => ({ ip: "192.0.2.44", knownDevice: false });
 
 describe("production refuses the local demo's shortcuts", () => {
