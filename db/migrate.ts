@@ -58,6 +58,7 @@ type UnsealedRow = {
   conditions: string[] | null;
   valid_from: string | null;
   valid_to: string | null;
+  validity_reason: string | null;
   signed_at: Date;
 };
 
@@ -81,14 +82,15 @@ export async function sealOlderDecisions(
   try {
     await client.query("BEGIN");
     // An approval's validity is that of the permit it issued.
-    await client.query(`UPDATE decision d SET valid_from = p.valid_from, valid_to = p.valid_to
+    await client.query(`UPDATE decision d SET valid_from = p.valid_from, valid_to = p.valid_to,
+                                              validity_reason = p.validity_reason
                           FROM permit p
                          WHERE d.hmac IS NULL AND d.kind = 'approve' AND d.valid_from IS NULL
                            AND p.revision_id = d.revision_id`);
     for (;;) {
       const batch = await client.query<UnsealedRow>(
         `SELECT id, application_id, revision_id, kind, step, signer_id, signer_name, signer_role, meaning,
-                content_hash, conditions, valid_from::text, valid_to::text, signed_at
+                content_hash, conditions, valid_from::text, valid_to::text, validity_reason, signed_at
            FROM decision WHERE hmac IS NULL LIMIT 5000`,
       );
       if (batch.rows.length === 0) break;
@@ -108,6 +110,7 @@ export async function sealOlderDecisions(
             conditions: r.conditions,
             validFrom: r.valid_from,
             validTo: r.valid_to,
+            validityReason: r.validity_reason,
             signedAt: r.signed_at,
           },
           key,

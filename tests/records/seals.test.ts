@@ -13,7 +13,7 @@ import { asActor, createSubmittedApplication, createTeam } from "../review/suppo
 
 requireDatabase();
 
-// Issue 14, tamper evidence: the audit hash chain (trigger of migration 0003) and the HMAC seal on
+// Issue 14, tamper evidence: the audit hash chain (trigger of migration 0007) and the HMAC seal on
 // every decision. Tampering is done as the owner role inside a transaction that is rolled back, so
 // the shared test database stays intact for the files after this one; the page checks commit a
 // change and put it back.
@@ -66,6 +66,7 @@ describe("decision seals", () => {
       { contentHash: "0".repeat(64) },
       { conditions: [] },
       { validTo: "2099-12-31" },
+      { validityReason: "A rehearsal on the day before." },
     ]) {
       expect(decisionHmac({ ...decision, ...change }), JSON.stringify(change)).not.toBe(decision.hmac);
     }
@@ -87,6 +88,11 @@ describe("decision seals", () => {
       const seals = await permitSeals(tx, permit.id);
       expect(seals).toMatchObject({ ok: false });
       expect(!seals.ok && seals.reason).toMatch(/validity differs/);
+    });
+    await tamperAndRollBack(async (tx) => {
+      await tx.update(permits).set({ validityReason: "Open all summer." }).where(eq(permits.id, permit.id));
+      const seals = await permitSeals(tx, permit.id);
+      expect(!seals.ok && seals.reason).toMatch(/reason for its validity differs/);
     });
     expect((await verifyDecisions(getDb())).firstBreak).toBeNull();
   });

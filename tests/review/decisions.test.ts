@@ -6,6 +6,8 @@ import { assessSetup, type Tier } from "@/lib/hazard";
 import { AppError } from "@/lib/errors";
 import { inclusiveDays } from "@/lib/permits/dates";
 import { revokePermit } from "@/lib/permits/revoke";
+import { sealMatches } from "@/lib/records/seal";
+import { permitSeals } from "@/lib/records/verify";
 import { decide } from "@/lib/review/decide";
 import { revisionHash } from "@/lib/signing/canonical";
 import { DECISION_MEANINGS } from "@/lib/signing/meanings";
@@ -305,6 +307,10 @@ describe("the permit is for the event (issue 20, item 1)", () => {
     expect(result.permit).toMatchObject({ ...wider, validityReason: reason });
     // Signed with the decision: the approval row carries the window and its reason.
     expect(result.decision).toMatchObject({ kind: "approve", ...wider, validityReason: reason });
+    // …and sealed: the seal covers the reason, and the permit re-checks against it (lib/records).
+    expect(sealMatches(result.decision)).toBe(true);
+    expect(sealMatches({ ...result.decision, validityReason: "Another reason." })).toBe(false);
+    expect(await permitSeals(getDb(), result.permit!.id)).toMatchObject({ ok: true });
     const [audit] = await getDb()
       .select({ data: auditEvents.data })
       .from(auditEvents)
