@@ -17,20 +17,22 @@ requireDatabase();
 //   * while the database is down, answers are 503 with Retry-After, never a 500 or a dropped
 //     connection, and the server process keeps running;
 //   * the app answers 2xx again within 5 s of the database being back, without a restart.
-// The load runs for LOAD_MS (20 s, not the issue's 60 s: the restart is over in about 4 s, and 20 s
-// gives several seconds of load on each side of it while keeping `npm test` short on a shared
-// machine). The figures are printed for the closing note.
+// The load runs for the issue's 60 s (LOAD_MS); PostgreSQL stops 20 s in and is down for 3 s plus
+// the time pg_ctl takes, so there are tens of seconds of load on each side of the outage. Decisions
+// are paced (one about every 0.6 s plus the request) so that they last through the minute. The
+// figures are printed for the closing note.
 
-const LOAD_MS = 20_000;
-const STOP_AT_MS = 6_000;
+const LOAD_MS = 60_000;
+const STOP_AT_MS = 20_000;
 const DOWN_MS = 3_000;
+const DECISION_PAUSE_MS = 600;
 
 type Outcome = { kind: "read" | "save" | "decide"; status: number; at: number; retryAfter: string | null };
 
 describe("PostgreSQL restarted under mixed load", () => {
   it(
     "keeps every acknowledged write, answers 503 while down and recovers by itself",
-    { timeout: 120_000 },
+    { timeout: 240_000 },
     async () => {
       const team = await createTeam();
       const instructorCookie = await signIn(team.instructor.email);
@@ -118,7 +120,7 @@ describe("PostgreSQL restarted under mixed load", () => {
             if (res?.status === 409 || !running()) break;
             await pause(100);
           }
-          await pause(150);
+          await pause(DECISION_PAUSE_MS);
         }
       };
       const restart = async () => {
