@@ -63,7 +63,7 @@ type UnsealedRow = {
 };
 
 /**
- * Seals decisions that have no seal yet (rows from before migration 0007, or bulk-loaded benchmark
+ * Seals decisions that have no seal yet (rows from before migration 0008, or bulk-loaded benchmark
  * data), then makes the column NOT NULL. Only runs while the column still allows NULL: once it is
  * NOT NULL no unsealed row can exist, so a forged row added later is never sealed here.
  */

@@ -10,7 +10,7 @@ requireDatabase();
 
 // Issue 14, database roles: the code under test connects as benchclear_app (scripts/test.mjs), the
 // migrations as the owner. The app's role may add to the records but never change or remove them,
-// nor change the tables or their triggers. Before migration 0003 every statement below succeeded
+// nor change the tables or their triggers. Before migration 0008 every statement below succeeded
 // (the app was the owner, locally the cluster's superuser).
 
 async function refusal(query: Promise<unknown>): Promise<string> {

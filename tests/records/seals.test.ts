@@ -13,7 +13,7 @@ import { asActor, createSubmittedApplication, createTeam } from "../review/suppo
 
 requireDatabase();
 
-// Issue 14, tamper evidence: the audit hash chain (trigger of migration 0007) and the HMAC seal on
+// Issue 14, tamper evidence: the audit hash chain (trigger of migration 0008) and the HMAC seal on
 // every decision. Tampering is done as the owner role inside a transaction that is rolled back, so
 // the shared test database stays intact for the files after this one; the page checks commit a
 // change and put it back.
