@@ -217,6 +217,9 @@ export async function createBackup(options: {
 
 export class RestoreError extends Error {}
 
+/** The app's database role (db/migrate.ts APP_ROLE; the dump's grants name it). */
+const APP_ROLE = "benchclear_app";
+
 /**
  * Rebuilds a fresh database and file store from an archive: unpacks it, checks every member against
  * the manifest's SHA-256, creates `database` (refused when it exists, unless `replace`), restores the
@@ -264,6 +267,15 @@ export async function restoreBackup(options: {
       }
       if (exists.rowCount) await maintenance.query(`DROP DATABASE ${options.database} WITH (FORCE)`);
       await maintenance.query(`CREATE DATABASE ${options.database}`);
+      // Roles belong to the cluster, not to the dump, whose grants name the app's role: on a fresh
+      // cluster it is made here without LOGIN, as migration 0008 makes it; the DBA then gives it LOGIN
+      // and a password (README, Backups).
+      await maintenance.query(`DO $$
+        BEGIN
+          IF NOT EXISTS (SELECT 1 FROM pg_roles WHERE rolname = '${APP_ROLE}') THEN
+            CREATE ROLE ${APP_ROLE} NOLOGIN NOSUPERUSER NOCREATEDB NOCREATEROLE NOINHERIT;
+          END IF;
+        END $$`);
     } finally {
       await maintenance.end();
     }

@@ -1,24 +1,38 @@
 import { execFileSync } from "node:child_process";
 import fs from "node:fs";
+import net from "node:net";
 import os from "node:os";
 import path from "node:path";
+import { eq } from "drizzle-orm";
 import { drizzle } from "drizzle-orm/node-postgres";
 import { Pool } from "pg";
 import { describe, expect, it } from "vitest";
 import { getDb } from "@/db";
+import { attachments } from "@/db/schema";
 import { writeAudit } from "@/lib/audit";
 import { verifyAuditChain } from "@/lib/records/verify";
 import { createBackup, restoreBackup } from "@/scripts/lib/backup";
+// @ts-expect-error plain JavaScript helpers shared with the start and test scripts
+import { startScratchCluster } from "@/scripts/lib/services.mjs";
 import { createDepartment, requireDatabase, uniq } from "../support/db";
 import { completeDraft, createDraft, pngBytes, saveDraft, signedInInstructor, upload } from "../applications/support";
 
 requireDatabase();
 
 // Issue 14, backups: `npm run backup` / `npm run restore` (scripts/lib/backup.ts). A backup taken
-// while drafts are saved and audit rows written restores into a fresh database and a fresh file
-// store with the row counts of the dump's snapshot and the SHA-256 of every stored file, and the
-// restored audit chain still verifies. SHA-256 is checked with `sha256sum` (GNU coreutils), an
+// while drafts are saved and audit rows written restores into a fresh PostgreSQL cluster (initdb'd
+// for the test, on a port of its own) and a fresh file store with the row counts of the dump's
+// snapshot and the SHA-256 of every stored file, and the restored audit chain still verifies. SHA-256 is checked with `sha256sum` (GNU coreutils), an
 // implementation outside the project.
+
+/** A port nobody listens on now (the OS picks it). */
+async function freePort(): Promise<number> {
+  const server = net.createServer();
+  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
+  const { port } = server.address() as net.AddressInfo;
+  await new Promise((resolve) => server.close(resolve));
+  return port;
+}
 
 function sha256sum(file: string): string {
   return execFileSync("sha256sum", [file], { encoding: "utf8" }).split(" ")[0];
@@ -35,7 +49,7 @@ describe("backup and restore", () => {
     const storeDir = process.env.STORAGE_DIR!;
     const out = path.join(os.tmpdir(), `benchclear-backup-test-${uniq("b")}.tar`);
     const restoreDir = fs.mkdtempSync(path.join(os.tmpdir(), "benchclear-restore-store-"));
-    const database = `${process.env.TEST_DB_NAME ?? "benchclear_test"}_restore`;
+    const database = "benchclear_restored";
 
     let load = true;
     let writes = 0;
@@ -65,18 +79,28 @@ describe("backup and restore", () => {
       await loader;
     }
     expect(writes).toBeGreaterThan(0);
-    expect(manifest.missingFiles).toEqual([]);
+    // Every file this test's rows name is in the archive (the shared test database also holds rows
+    // of other test files whose files live elsewhere, e.g. in the S3 test's bucket).
+    const ours = await getDb()
+      .select({ key: attachments.storageKey })
+      .from(attachments)
+      .where(eq(attachments.applicationId, draft.id));
+    expect(ours.length).toBe(3);
+    expect(manifest.missingFiles.filter((key) => ours.some((o) => o.key === key))).toEqual([]);
     expect(manifest.rowCounts.audit_event).toBeGreaterThan(0);
     const files = manifest.members.filter((m) => m.path.startsWith("files/"));
-    expect(files.length).toBeGreaterThanOrEqual(3);
+    expect(files.filter((m) => ours.some((o) => m.path === `files/${o.key}`)).length).toBe(3);
 
+    const scratch = startScratchCluster({ port: await freePort(), password: uniq("scratch") }) as {
+      url: (database: string) => string;
+      stop: () => void;
+    };
     try {
       const restored = await restoreBackup({
         file: out,
-        ownerUrl: process.env.DATABASE_OWNER_URL!,
+        ownerUrl: scratch.url(database),
         database,
         store: { driver: "local", dir: restoreDir },
-        replace: true,
       });
       expect(restored.rowCounts).toEqual(manifest.rowCounts);
       expect(restored.files).toBe(files.length);
@@ -86,28 +110,29 @@ describe("backup and restore", () => {
         // The stored files are never changed in place: the live copy hashes the same.
         expect(sha256sum(path.join(storeDir, key))).toBe(member.sha256);
       }
-      // The restored records still verify (the chain head was dumped in the same snapshot).
-      const url = new URL(process.env.DATABASE_OWNER_URL!);
-      url.pathname = `/${database}`;
-      const pool = new Pool({ connectionString: url.toString(), max: 1 });
+      // The restored records still verify (the chain head was dumped in the same snapshot), and the
+      // app's role has the same grants there: no UPDATE on the audit trail.
+      const pool = new Pool({ connectionString: scratch.url(database), max: 1 });
       try {
         const report = await verifyAuditChain(drizzle({ client: pool }) as never);
         expect(report.firstBreak).toBeNull();
         expect(report.rows).toBe(manifest.rowCounts.audit_event);
+        const grants = await pool.query<{ update: boolean; insert: boolean }>(
+          `SELECT has_table_privilege('benchclear_app', 'audit_event', 'UPDATE') AS update,
+                  has_table_privilege('benchclear_app', 'audit_event', 'INSERT') AS insert`,
+        );
+        expect(grants.rows[0]).toEqual({ update: false, insert: true });
       } finally {
         await pool.end();
       }
       console.log(
         `[backup] ${Object.values(manifest.rowCounts).reduce((a, b) => a + b, 0)} rows in ${Object.keys(manifest.rowCounts).length} tables, ` +
-          `${files.length} files, ${fs.statSync(out).size} bytes; ${writes} writes ran during the backup`,
+          `${files.length} files, ${fs.statSync(out).size} bytes; ${writes} writes ran during the backup; restored into a fresh cluster`,
       );
     } finally {
+      scratch.stop();
       fs.rmSync(out, { force: true });
       fs.rmSync(restoreDir, { recursive: true, force: true });
-      const admin = new URL(process.env.DATABASE_OWNER_URL!);
-      admin.pathname = "/postgres";
-      const pool = new Pool({ connectionString: admin.toString(), max: 1 });
-      await pool.query(`DROP DATABASE IF EXISTS ${database} WITH (FORCE)`).finally(() => pool.end());
     }
   });
 
