@@ -1,7 +1,7 @@
 import { defineConfig } from "drizzle-kit";
 
 // drizzle-kit generates SQL migrations from db/schema into db/migrations (committed). Migrations are
-// applied by db/migrate.ts, never inside `next build`.
+// applied by scripts/lib/migrate.ts, never inside `next build`.
 export default defineConfig({
   dialect: "postgresql",
   schema: "./db/schema/index.ts",

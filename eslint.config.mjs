@@ -33,12 +33,26 @@ const LIB_DOMAINS = {
   outbox: ["audit", "env", "users/invitation-token.ts"],
   signing: ["audit", "auth", "errors", "ratelimit"], // password re-ask, content hash, separation of duties
   ops: ["storage"], // health checks and graceful drain
+  // Tamper evidence: decision seals (key from the environment) and the verifier of the audit chain.
+  records: ["audit", "env", "signing"],
   // Domains, lower ones first.
   rules: ["audit", "auth", "errors", "hazard", "roles"],
   "hazard-rules": ["hazard", "rules"],
   users: ["audit", "auth", "env", "errors", "outbox", "ratelimit"],
   apparatus: ["audit", "auth", "errors", "hazard", "hazard-rules"],
-  permits: ["apparatus", "audit", "auth", "errors", "hazard", "outbox", "rules", "settings", "signing", "users"],
+  permits: [
+    "apparatus",
+    "audit",
+    "auth",
+    "errors",
+    "hazard",
+    "outbox",
+    "records",
+    "rules",
+    "settings",
+    "signing",
+    "users",
+  ],
   applications: [
     "apparatus",
     "audit",
@@ -62,6 +76,7 @@ const LIB_DOMAINS = {
     "hazard",
     "outbox",
     "permits",
+    "records",
     "rules",
     "settings",
     "signing",
@@ -73,6 +88,7 @@ const LIB_DOMAINS = {
     "hazard",
     "permits",
     "ratelimit",
+    "records",
     "settings",
     "applications/schemas.ts",
     "http/client-ip.ts",

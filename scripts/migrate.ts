@@ -1,8 +1,8 @@
-// Applies the committed migrations (db/migrate.ts) as the owner (DATABASE_OWNER_URL, else DATABASE_URL)
+// Applies the committed migrations (scripts/lib/migrate.ts) as the owner (DATABASE_OWNER_URL, else DATABASE_URL)
 // from the environment or .env.local.
 // Run by `npm start`, `npm test` and `npm run db:migrate`.
 import { closeDb } from "@/db";
-import { runMigrations } from "@/db/migrate";
+import { runMigrations } from "@/scripts/lib/migrate";
 import { loadLocalEnv } from "@/scripts/lib/load-env";
 
 loadLocalEnv();

@@ -1,4 +1,4 @@
--- Database roles and tamper evidence (issue 14). Runs as the owner role (db/migrate.ts uses
+-- Database roles and tamper evidence (issue 14). Runs as the owner role (scripts/lib/migrate.ts uses
 -- DATABASE_OWNER_URL). The app connects as benchclear_app, which gets only the grants it needs:
 --   * audit_event, decision, application_revision: SELECT and INSERT only. No UPDATE, DELETE,
 --     TRUNCATE, and no DDL (only a table's owner may ALTER it or disable its triggers).
@@ -130,7 +130,7 @@ GRANT SELECT ON audit_chain_head TO benchclear_app;
 -- Decisions carry an HMAC-SHA-256 (key DECISION_HMAC_KEY, from the environment, never stored here)
 -- over what was decided, the validity an approval granted included (valid_from, valid_to and
 -- validity_reason, migration 0006): see lib/records/seal.ts. Decisions made before this migration are
--- sealed by db/migrate.ts (it has the key), which then makes hmac NOT NULL, so no unsealed row can be
+-- sealed by scripts/lib/migrate.ts (it has the key), which then makes hmac NOT NULL, so no unsealed row can be
 -- added later.
 ALTER TABLE decision ADD COLUMN hmac text;
 --> statement-breakpoint

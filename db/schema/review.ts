@@ -52,7 +52,7 @@ export const decisions = pgTable(
     validTo: date({ mode: "string" }),
     validityReason: text(),
     signedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
-    // HMAC over the decision (lib/records/seal.ts). Added nullable by 0008_roles_and_seals; db/migrate.ts
+    // HMAC over the decision (lib/records/seal.ts). Added nullable by 0008_roles_and_seals; scripts/lib/migrate.ts
     // seals older rows with the key and then sets NOT NULL.
     hmac: text().notNull(),
   },

@@ -139,7 +139,7 @@ CREATE TEMP TABLE gen_officer ON COMMIT DROP AS
 SELECT id FROM app_user WHERE email = 'officer@benchclear.test';
 CREATE TEMP TABLE gen_meaning ON COMMIT DROP AS SELECT DISTINCT ON (kind) kind, meaning FROM decision;
 
--- Generated decisions carry no seal here: db/migrate.ts seals them with DECISION_HMAC_KEY right after
+-- Generated decisions carry no seal here: scripts/lib/migrate.ts seals them with DECISION_HMAC_KEY right after
 -- this script (scripts/bench/data.ts), and sets the column NOT NULL again.
 ALTER TABLE decision ALTER COLUMN hmac DROP NOT NULL;
 INSERT INTO decision (application_id, revision_id, kind, step, signer_id, signer_name, signer_role, meaning, content_hash, signed_at)

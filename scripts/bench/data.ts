@@ -89,7 +89,7 @@ export function makeDataset(env: Env, base: string, database: string, n: number)
     { encoding: "utf8", env: { ...process.env, PGPASSWORD: env.LOCAL_PG_PASSWORD } },
   );
   if (result.status !== 0) throw new Error(`generating ${n} permits failed: ${result.stderr}`);
-  // Seal the generated decisions (db/migrate.ts does it for rows without a seal).
+  // Seal the generated decisions (scripts/lib/migrate.ts does it for rows without a seal).
   const url = databaseUrlFor(env, database);
   run(bin("tsx"), ["scripts/migrate.ts"], {
     env: { ...process.env, ...env, DATABASE_URL: url, DATABASE_OWNER_URL: url, NODE_ENV: "development" },

@@ -217,7 +217,7 @@ export async function createBackup(options: {
 
 export class RestoreError extends Error {}
 
-/** The app's database role (db/migrate.ts APP_ROLE; the dump's grants name it). */
+/** The app's database role (scripts/lib/migrate.ts APP_ROLE; the dump's grants name it). */
 const APP_ROLE = "benchclear_app";
 
 /**

@@ -1,4 +1,5 @@
-// Applies the committed SQL migrations in db/migrations, as the owner role (DATABASE_OWNER_URL, or
+// Applies the committed SQL migrations in db/migrations (it lives in scripts/ because it uses lib/:
+// the decision seal and the job queue; db/ sits below lib/), as the owner role (DATABASE_OWNER_URL, or
 // DATABASE_URL when there is no separate owner). Run through scripts/migrate.ts by `npm start`,
 // `npm test`, `npm run cluster` and `npm run db:migrate` as a step of its own; never by `next build`
 // and never by an app server on start. After the SQL it does what SQL alone cannot:
@@ -16,7 +17,7 @@ import { migrate } from "drizzle-orm/node-postgres/migrator";
 import pg from "pg";
 import { env } from "@/lib/env";
 import { decisionHmac, type SealableDecision } from "@/lib/records/seal";
-import * as schema from "./schema";
+import * as schema from "@/db/schema";
 
 export const APP_ROLE = "benchclear_app";
 
@@ -34,7 +35,7 @@ export async function runMigrations(
   try {
     await client.query("SELECT pg_advisory_lock($1::bigint)", [MIGRATION_LOCK_KEY]);
     const db = drizzle({ client, schema, casing: "snake_case" });
-    await migrate(db, { migrationsFolder: path.join(import.meta.dirname, "migrations") });
+    await migrate(db, { migrationsFolder: path.join(import.meta.dirname, "..", "..", "db", "migrations") });
     await sealOlderDecisions(client, log);
     await installJobQueue(url, client, log);
   } finally {
