@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { deliverDueMail, OUTBOX_POLICY } from "@/lib/mail/actions";
-import { queueMail } from "@/lib/mail/outbox";
+import { queueMail } from "@/lib/outbox";
 import { smtpSettingsFromEnv } from "@/lib/mail/transport";
 import { createUser, requireDatabase, uniq } from "../support/db";
 import { baseUrl, http, signIn } from "../support/http";
