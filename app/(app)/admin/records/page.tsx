@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import { db } from "@/db";
 import { Card } from "@/app/_components/card";
 import { formatDateTime } from "@/app/_components/format";
+import { institutionTimeZone } from "@/lib/settings/queries";
 import { PageHeader } from "@/app/_components/page-header";
 import { requirePageUser } from "@/lib/auth/guards";
 import { verifyRecords, type Break } from "@/lib/records/verify";
@@ -34,7 +35,7 @@ function Outcome({ ok, broken, good }: { ok: boolean; broken: Break | null; good
 
 export default async function RecordsPage() {
   await requirePageUser("admin.records", "/admin/records");
-  const report = await verifyRecords(db);
+  const [report, timeZone] = await Promise.all([verifyRecords(db), institutionTimeZone()]);
   return (
     <>
       <PageHeader
@@ -69,7 +70,7 @@ export default async function RecordsPage() {
           />
         </Card>
       </div>
-      <p className="mt-4 text-sm text-stone-600">Checked {formatDateTime(new Date(report.checkedAt))}.</p>
+      <p className="mt-4 text-sm text-stone-600">Checked {formatDateTime(new Date(report.checkedAt), timeZone)}.</p>
     </>
   );
 }

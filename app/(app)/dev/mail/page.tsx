@@ -65,7 +65,7 @@ const messageColumns = (selected: string | undefined, timeZone: string): Column<
   },
 ];
 
-const outboxColumns: Column<OutboxListRow>[] = [
+const outboxColumns = (timeZone: string): Column<OutboxListRow>[] => [
   { key: "id", header: "Row", figure: true, cell: (r) => r.id },
   { key: "status", header: "Status", cell: (r) => (r.status === "failed" ? "Failed" : "Queued") },
   { key: "to", header: "To", cell: (r) => r.toAddress },
@@ -77,7 +77,7 @@ const outboxColumns: Column<OutboxListRow>[] = [
     // The back-off (30 s doubling to 1 h) made visible, so an outage shows as waiting, not lost.
     cell: (r) => {
       const next = nextAttemptAt(r, OUTBOX_POLICY.backoff);
-      return next ? formatDateTime(next) : "—";
+      return next ? formatDateTime(next, timeZone) : "—";
     },
   },
   { key: "error", header: "Last error", hideBelow: "lg", cell: (r) => r.lastError ?? "—" },
@@ -192,7 +192,7 @@ export default async function DevMailPage({ searchParams }: { searchParams: Prom
         <Card title="Waiting or failed in the outbox" flush>
           <DataTable
             caption="Outbox rows that are queued or failed"
-            columns={outboxColumns}
+            columns={outboxColumns(timeZone)}
             rows={pending}
             rowKey={(r) => String(r.id)}
             empty="Nothing waiting: every queued message has been sent."
