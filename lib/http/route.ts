@@ -3,6 +3,7 @@ import type { z } from "zod";
 import { env } from "@/lib/env";
 import { can, getCurrentUser, type CurrentUser } from "@/lib/auth/guards";
 import type { Permission } from "@/lib/auth/permissions";
+import { isRecordId } from "./ids";
 import { DEFAULT_BODY_LIMIT_BYTES, discardBody, readBodyBytes, readJsonBody } from "./body";
 import {
   AppError,
@@ -11,6 +12,7 @@ import {
   forbidden,
   fromZodError,
   isDatabaseUnavailable,
+  notFound,
   unauthenticated,
 } from "@/lib/errors";
 
@@ -40,6 +42,12 @@ type Options<B, Q, A extends Access> = {
   query?: z.ZodType<Q>;
   /** Raw body limit in bytes for JSON bodies (default 256 KiB). */
   maxBodyBytes?: number;
+  /**
+   * Path params that are record ids, each with what it names ("That permit"): checked as UUIDs
+   * before the body is read. Anything else names no record, so it gets the same 404 as a record
+   * that does not exist (one status for a bad id across the API).
+   */
+  ids?: Record<string, string>;
   /** The route reads the body itself (uploads), through ctx.readRawBody(): at most this many bytes. */
   rawBody?: { maxBytes: number; tooLarge?: () => AppError };
 };
@@ -94,6 +102,10 @@ export function route<B = undefined, Q = undefined, A extends Access = Access>(
       const params = Object.fromEntries(
         Object.entries(rawParams).map(([k, v]) => [k, Array.isArray(v) ? v.join("/") : v]),
       );
+
+      for (const [name, what] of Object.entries(options.ids ?? {})) {
+        if (!isRecordId(params[name])) throw notFound(what);
+      }
 
       let query = undefined as Q;
       if (options.query) {

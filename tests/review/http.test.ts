@@ -47,10 +47,13 @@ describe("review and permits over HTTP", () => {
     const wrong = await post(url, "reviewer", { kind: "approve", expectedVersion: v, password: "not my password" });
     expect(wrong.status).toBe(422);
     expect(wrong.json?.error.issues).toEqual([{ path: "password", message: "The password is not correct." }]);
-    expect(
-      (await post("/api/review/not-a-uuid/decisions", "reviewer", { kind: "recommend", expectedVersion: 1 })).json
-        ?.error.issues[0].path,
-    ).toBe("id");
+    // Not an id at all: the same 404 as an application that does not exist (route()'s ids).
+    const notAnId = await post("/api/review/not-a-uuid/decisions", "reviewer", {
+      kind: "recommend",
+      expectedVersion: 1,
+    });
+    expect(notAnId.status).toBe(404);
+    expect(notAnId.json?.error.code).toBe("not_found");
     const form = await http(url, {
       method: "POST",
       cookie: cookie.reviewer,

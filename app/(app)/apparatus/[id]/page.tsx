@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import { isRecordId } from "@/lib/http/ids";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { ButtonLink } from "@/app/_components/button";
@@ -25,7 +26,7 @@ type PageProps = { params: Promise<{ id: string }> };
 
 async function load(id: string) {
   const user = await requirePageUser("apparatus.read", `/apparatus/${id}`);
-  if (!/^[0-9a-f-]{36}$/i.test(id)) notFound();
+  if (!isRecordId(id)) notFound();
   try {
     return { user, apparatus: await getApparatus(user, id) };
   } catch (error) {

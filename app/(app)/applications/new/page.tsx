@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import { isRecordId } from "@/lib/http/ids";
 import Link from "next/link";
 import { Alert } from "@/app/_components/alert";
 import { PageHeader } from "@/app/_components/page-header";
@@ -13,8 +14,6 @@ import { FormSubtitle } from "./_form/form-subtitle";
 export const metadata: Metadata = { title: "New application" };
 
 type PageProps = { searchParams: Promise<Record<string, string | string[] | undefined>> };
-
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 // Nothing is stored until the first autosave: opening this page never creates a record.
 export default async function NewApplicationPage({ searchParams }: PageProps) {
@@ -43,7 +42,7 @@ export default async function NewApplicationPage({ searchParams }: PageProps) {
   const [rules, choices] = await Promise.all([currentTierRules(), listApparatusChoices(user)]);
   const draft = emptyDraft();
   draft.event.responsible = { userId: user.id, name: user.name, trained: false };
-  if (typeof apparatusParam === "string" && UUID.test(apparatusParam)) {
+  if (isRecordId(apparatusParam)) {
     // Started from a registry record ("Use in an application"): its current revision, as typed text.
     const record = await getApparatus(user, apparatusParam).catch(() => null);
     if (record) {

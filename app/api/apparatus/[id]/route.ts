@@ -3,13 +3,12 @@
 // someone saved another revision since `expectedRevision`).
 import { updateApparatus } from "@/lib/apparatus/actions";
 import { getApparatus } from "@/lib/apparatus/queries";
-import { idParam } from "@/lib/applications/params";
 import { readableAssessment, type Assessment } from "@/lib/hazard";
 import { route } from "@/lib/http/route";
 import { apparatusUpdateSchema } from "@/lib/apparatus/schemas";
 
-export const GET = route({ access: "apparatus.read" }, async ({ user, params }) => {
-  const found = await getApparatus(user, idParam(params.id, "That apparatus"));
+export const GET = route({ ids: { id: "That apparatus" }, access: "apparatus.read" }, async ({ user, params }) => {
+  const found = await getApparatus(user, params.id);
   // A revision assessed by engine 1 named an internal working file in its sources; the answer drops
   // those pointers (the stored snapshot stays as it was signed).
   const current = found.current && {
@@ -20,8 +19,8 @@ export const GET = route({ access: "apparatus.read" }, async ({ user, params }) 
 });
 
 export const PATCH = route(
-  { access: "apparatus.write", body: apparatusUpdateSchema },
+  { ids: { id: "That apparatus" }, access: "apparatus.write", body: apparatusUpdateSchema },
   async ({ user, body, params }) => ({
-    apparatus: await updateApparatus(user, idParam(params.id, "That apparatus"), body),
+    apparatus: await updateApparatus(user, params.id, body),
   }),
 );

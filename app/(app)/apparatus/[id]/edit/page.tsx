@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import { isRecordId } from "@/lib/http/ids";
 import Link from "next/link";
 import { notFound, redirect } from "next/navigation";
 import { PageHeader } from "@/app/_components/page-header";
@@ -16,7 +17,7 @@ type PageProps = { params: Promise<{ id: string }> };
 export default async function EditApparatusPage({ params }: PageProps) {
   const { id } = await params;
   const user = await requirePageUser("apparatus.write", `/apparatus/${id}/edit`);
-  if (!/^[0-9a-f-]{36}$/i.test(id)) notFound();
+  if (!isRecordId(id)) notFound();
   let apparatus;
   try {
     apparatus = await getApparatus(user, id);

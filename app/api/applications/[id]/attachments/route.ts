@@ -4,7 +4,6 @@
 import { z } from "zod";
 import { addAttachment, assertCanAttach } from "@/lib/applications/attachments";
 import { ATTACHMENT_MAX_BYTES, ATTACHMENT_REQUEST_MAX_BYTES, formatBytes } from "@/lib/applications/limits";
-import { idParam } from "@/lib/applications/params";
 import { AppError, fromZodError } from "@/lib/errors";
 import { route } from "@/lib/http/route";
 
@@ -20,6 +19,7 @@ const tooLarge = (what: string) =>
 // framing, Content-Length or not, chunked or not. Only then is the form parsed, from those bytes.
 export const POST = route(
   {
+    ids: { id: "That application" },
     access: "application.create",
     rawBody: {
       maxBytes: ATTACHMENT_REQUEST_MAX_BYTES,
@@ -30,7 +30,7 @@ export const POST = route(
     },
   },
   async ({ request, readRawBody, user, params }) => {
-    const id = idParam(params.id, "That application");
+    const id = params.id;
     await assertCanAttach(user, id);
     const type = request.headers.get("content-type") ?? "";
     if (!/^multipart\/form-data\b/i.test(type)) {

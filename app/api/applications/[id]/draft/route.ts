@@ -2,18 +2,17 @@
 // PATCH /api/applications/[id]/draft — autosave: the whole draft and step, guarded by
 // `expectedVersion` (409 when it was saved elsewhere or is no longer a draft).
 import { saveDraft } from "@/lib/applications/actions";
-import { idParam } from "@/lib/applications/params";
 import { getDraftForEdit } from "@/lib/applications/queries";
 import { route } from "@/lib/http/route";
 import { draftSaveSchema } from "@/lib/applications/schemas";
 
-export const GET = route({ access: "user" }, async ({ user, params }) => ({
-  application: await getDraftForEdit(user, idParam(params.id, "That application")),
+export const GET = route({ ids: { id: "That application" }, access: "user" }, async ({ user, params }) => ({
+  application: await getDraftForEdit(user, params.id),
 }));
 
 export const PATCH = route(
-  { access: "application.create", body: draftSaveSchema, maxBodyBytes: 512 * 1024 },
+  { ids: { id: "That application" }, access: "application.create", body: draftSaveSchema, maxBodyBytes: 512 * 1024 },
   async ({ user, body, params }) => ({
-    application: await saveDraft(user, idParam(params.id, "That application"), body),
+    application: await saveDraft(user, params.id, body),
   }),
 );

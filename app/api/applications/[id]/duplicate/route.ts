@@ -2,12 +2,10 @@
 // same event and set-up, dates cleared, controls and attestation to confirm again.
 import { z } from "zod";
 import { duplicateApplication } from "@/lib/applications/actions";
-import { idParam } from "@/lib/applications/params";
 import { route } from "@/lib/http/route";
 
-export const POST = route({ access: "application.create", body: z.strictObject({}) }, async ({ user, params }) =>
-  Response.json(
-    { application: await duplicateApplication(user, idParam(params.id, "That application")) },
-    { status: 201 },
-  ),
+export const POST = route(
+  { ids: { id: "That application" }, access: "application.create", body: z.strictObject({}) },
+  async ({ user, params }) =>
+    Response.json({ application: await duplicateApplication(user, params.id) }, { status: 201 }),
 );

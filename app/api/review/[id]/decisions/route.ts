@@ -1,21 +1,15 @@
 // POST /api/review/[id]/decisions — sign a decision on the application's current revision:
 // recommend, return (comment), approve (password, requirements confirmed, validity window) or
 // reject (password, comment). 403 for the wrong person, 409 when it is no longer waiting for it.
-import { z } from "zod";
 import { clientIp } from "@/lib/http/client-ip";
-import { fromZodError } from "@/lib/errors";
 import { route } from "@/lib/http/route";
 import { decide } from "@/lib/review/decide";
 import { decisionBodySchema } from "@/lib/review/schemas";
 
-const idSchema = z.uuid({ error: "must be an application id" });
-
 export const POST = route(
-  { access: "application.review", body: decisionBodySchema },
+  { access: "application.review", body: decisionBodySchema, ids: { id: "That application" } },
   async ({ request, user, body, params }) => {
-    const id = idSchema.safeParse(params.id);
-    if (!id.success) throw fromZodError(id.error, "id");
-    const result = await decide(user, id.data, body, { ip: clientIp(request.headers) });
+    const result = await decide(user, params.id, body, { ip: clientIp(request.headers) });
     return Response.json(
       {
         application: {

@@ -3,7 +3,6 @@
 // DELETE … — the applicant takes a file off the draft (kept while a submitted revision lists it).
 import { readAttachment, removeAttachment } from "@/lib/applications/attachments";
 import { isImageType } from "@/lib/applications/limits";
-import { idParam } from "@/lib/applications/params";
 import { route } from "@/lib/http/route";
 
 /** RFC 6266 with an ASCII fallback and the UTF-8 name (RFC 5987). */
@@ -12,29 +11,27 @@ function contentDisposition(kind: "inline" | "attachment", filename: string): st
   return `${kind}; filename="${ascii}"; filename*=UTF-8''${encodeURIComponent(filename)}`;
 }
 
-export const GET = route({ access: "user" }, async ({ request, user, params }) => {
-  const file = await readAttachment(
-    user,
-    idParam(params.id, "That application"),
-    idParam(params.attachmentId, "That attachment"),
-  );
-  const download = new URL(request.url).searchParams.get("download") === "1";
-  const inline = isImageType(file.contentType) && !download;
-  return new Response(new Uint8Array(file.bytes), {
-    headers: {
-      "Content-Type": file.contentType,
-      "Content-Length": String(file.bytes.length),
-      "Content-Disposition": contentDisposition(inline ? "inline" : "attachment", file.filename),
-      "X-Content-Type-Options": "nosniff",
-      "Cache-Control": "private, no-store",
-    },
-  });
-});
+export const GET = route(
+  { ids: { id: "That application", attachmentId: "That attachment" }, access: "user" },
+  async ({ request, user, params }) => {
+    const file = await readAttachment(user, params.id, params.attachmentId);
+    const download = new URL(request.url).searchParams.get("download") === "1";
+    const inline = isImageType(file.contentType) && !download;
+    return new Response(new Uint8Array(file.bytes), {
+      headers: {
+        "Content-Type": file.contentType,
+        "Content-Length": String(file.bytes.length),
+        "Content-Disposition": contentDisposition(inline ? "inline" : "attachment", file.filename),
+        "X-Content-Type-Options": "nosniff",
+        "Cache-Control": "private, no-store",
+      },
+    });
+  },
+);
 
-export const DELETE = route({ access: "application.create" }, async ({ user, params }) => ({
-  attachment: await removeAttachment(
-    user,
-    idParam(params.id, "That application"),
-    idParam(params.attachmentId, "That attachment"),
-  ),
-}));
+export const DELETE = route(
+  { ids: { id: "That application", attachmentId: "That attachment" }, access: "application.create" },
+  async ({ user, params }) => ({
+    attachment: await removeAttachment(user, params.id, params.attachmentId),
+  }),
+);
