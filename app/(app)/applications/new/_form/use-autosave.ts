@@ -30,6 +30,15 @@ export type SaveStatus =
 const SAVING: SaveStatus = { kind: "saving" };
 
 type SaveResult = { id: string; version: number };
+
+/** JSON with object keys in a fixed order, to tell whether two drafts say the same thing. */
+function canonical(value: unknown): string {
+  return JSON.stringify(value, (_key, v: unknown) =>
+    v && typeof v === "object" && !Array.isArray(v)
+      ? Object.fromEntries(Object.entries(v as Record<string, unknown>).sort(([a], [b]) => a.localeCompare(b)))
+      : v,
+  );
+}
 type SaveInput = { id: string | null; version: number; draft: ApplicationDraft; step: number };
 
 async function saveRequest({ id, version, draft, step }: SaveInput): Promise<SaveResult> {
@@ -129,7 +138,7 @@ class Autosaver {
     }
   }
 
-  private async attempt(): Promise<boolean> {
+  private async attempt(retried = false): Promise<boolean> {
     this.setStatus(SAVING);
     const draft = structuredClone(this.form.getValues());
     const step = this.step;
@@ -156,7 +165,12 @@ class Autosaver {
       this.dirty = true;
       const status = error instanceof ApiError ? error.status : 0;
       const message = error instanceof Error ? error.message : "The draft was not saved.";
-      if (status === 409) {
+      if (status === 409 && !retried && this.id && (await this.sameAsSaved(draft))) {
+        // The newer version says what this form says: it is this browser's own save, sent as the
+        // previous page was left and landed after this one loaded. Not a conflict: save on top of it.
+        this.dirty = false;
+        return this.attempt(true);
+      } else if (status === 409) {
         this.blocked = true;
         this.setStatus({ kind: "conflict", message });
       } else if (status >= 400 && status < 500 && status !== 401 && status !== 408 && status !== 429) {
@@ -191,6 +205,20 @@ class Autosaver {
     this.cancel();
     this.blocked = false;
     return this.run();
+  }
+
+  /** Whether the saved draft equals `draft`; if so, its version becomes the one this form edits. */
+  private async sameAsSaved(draft: ApplicationDraft): Promise<boolean> {
+    try {
+      const res = await apiFetch<{ application: { version: number; draft: ApplicationDraft } }>(
+        `/api/applications/${this.id}/draft`,
+      );
+      if (canonical(res.application.draft) !== canonical(draft)) return false;
+      this.version = res.application.version;
+      return true;
+    } catch {
+      return false;
+    }
   }
 
   /** After a conflict: take the saved version from the server and drop what was typed here. */
