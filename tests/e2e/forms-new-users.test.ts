@@ -404,6 +404,11 @@ describe("issue 20: forms that keep, explain and follow the user", () => {
 
       // Resubmitted: the return is history, not a current instruction. (The form sends a pending save as it
       // is left; opening it again before that save has landed would meet the draft "saved elsewhere".)
+      // Past the autosave's pause (800 ms), then until the form says everything is saved.
+      await page.waitForTimeout(1_000);
+      await expect
+        .poll(() => page.getByTestId("save-status").textContent(), { timeout: 20_000 })
+        .toMatch(/^(Saved|Not saved yet)/);
       await page.waitForLoadState("networkidle");
       await page.goto(`/applications/${application.id}/edit?step=6`);
       await page.getByLabel(/I confirm that this application describes the set-up/).check();
