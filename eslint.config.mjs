@@ -94,6 +94,20 @@ const LIB_DOMAINS = {
     "http/client-ip.ts",
     "pdf/content.ts",
   ],
+  // Re-review when an apparatus changes: flags the permits over a new revision, starts amendments.
+  rereview: [
+    "apparatus",
+    "applications",
+    "audit",
+    "auth",
+    "errors",
+    "hazard",
+    "hazard-rules",
+    "outbox",
+    "permits",
+    "review",
+    "settings",
+  ],
   calendar: ["audit", "auth", "env", "errors", "outbox", "permits", "settings"],
   pdf: [
     "applications",

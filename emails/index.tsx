@@ -1,5 +1,6 @@
 import { renderToStaticMarkup } from "./render";
 import type { MailMessage } from "@/lib/outbox";
+import { apparatusChangedEmail } from "./apparatus-changed";
 import { applicationApprovedEmail } from "./application-approved";
 import { applicationRecommendedEmail } from "./application-recommended";
 import { applicationRejectedEmail } from "./application-rejected";
@@ -23,6 +24,7 @@ const BUILDERS: { [K in MailMessage["kind"]]: EmailBuilder<K> } = {
   application_rejected: applicationRejectedEmail,
   permit_revoked: permitRevokedEmail,
   permit_reminder: permitReminderEmail,
+  apparatus_changed: apparatusChangedEmail,
 };
 
 export type RenderedEmail = { content: EmailContent; html: string; text: string };

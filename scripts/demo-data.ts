@@ -92,6 +92,61 @@ export async function seed(): Promise<void> {
   console.log(
     `  demo data: ${DEMO_DEPARTMENTS.length} departments, ${missing.length} user(s) added, story ${told ? "added" : "already there"}`,
   );
+  await demoApparatusChange();
+}
+
+/**
+ * Re-review (issue 17, item 4): the discharge-tube supply under the active teaching-lab permit is
+ * replaced by a stronger one — 10 kV with 10 nF of output capacitance, ½ × 10 nF × (10 kV)² = 0.5 J,
+ * tier 2 where the permit was approved at tier 1 — so the permit page and the instructor's dashboard
+ * show "apparatus changed since approval", and the holder and the officer have an e-mail. Once only.
+ */
+async function demoApparatusChange(): Promise<void> {
+  const MARK = "demo.apparatus_change_seeded";
+  const { and, eq } = await import("drizzle-orm");
+  const { apparatus, apparatusRevisions, auditEvents } = await import("@/db/schema");
+  const { currentUserColumns } = await import("@/lib/auth/current-user");
+  const { writeAudit } = await import("@/lib/audit");
+  const { reviseApparatus } = await import("@/lib/rereview/actions");
+  const db = getDb();
+  const [done] = await db.select({ id: auditEvents.id }).from(auditEvents).where(eq(auditEvents.action, MARK));
+  if (done) return;
+  const [owner] = await db.select(currentUserColumns).from(users).where(eq(users.email, "instructor@benchclear.test"));
+  const [record] = owner
+    ? await db
+        .select({ id: apparatus.id, revision: apparatus.currentRevision, setup: apparatusRevisions.setup })
+        .from(apparatus)
+        .innerJoin(
+          apparatusRevisions,
+          and(
+            eq(apparatusRevisions.apparatusId, apparatus.id),
+            eq(apparatusRevisions.revision, apparatus.currentRevision),
+          ),
+        )
+        .where(and(eq(apparatus.ownerId, owner.id), eq(apparatus.name, "Discharge tube supply")))
+    : [];
+  if (!owner || !record) return;
+  const saved = await reviseApparatus(owner, record.id, {
+    name: "Discharge tube supply",
+    room: "C04 teaching lab",
+    notes: "Replaced by the 10 kV supply from the stores; larger output capacitor, same tubes.",
+    setup: {
+      sources: [
+        {
+          id: "Supply",
+          kind: "dc-supply",
+          voltage_V: 10_000,
+          currentLimit_A: 10e-3,
+          seriesResistance_ohm: 100e3,
+          outputCapacitance_F: 10e-9,
+        },
+      ],
+      vacuumDevice: true,
+    },
+    expectedRevision: record.revision,
+  });
+  await writeAudit(db, { actor: null, action: MARK, entityType: "demo", entityId: "apparatus-change" });
+  console.log(`  demo data: apparatus changed under ${saved.permitsFlagged.length} active permit(s)`);
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {

@@ -12,6 +12,7 @@ import { formatDateTime } from "@/app/_components/format";
 import { PageHeader } from "@/app/_components/page-header";
 import type { Tier } from "@/app/_components/tier";
 import { TierBadge } from "@/app/_components/tier-badge";
+import { ApparatusChangesSection } from "@/app/_components/rereview/apparatus-changes-section";
 import { myDashboardApplications } from "@/lib/applications/queries";
 import { can, requirePageUser } from "@/lib/auth/guards";
 import { expiringPermits } from "@/lib/permits/queries";
@@ -71,6 +72,7 @@ export default async function DashboardPage() {
               {firstWaiting.tier !== null && <TierBadge tier={firstWaiting.tier as Tier} className="mt-2" />}
             </Card>
           )}
+          {applies && <ApparatusChangesSection user={user} />}
           {mine && <DraftsSection drafts={mine.drafts} />}
           {mine && <OpenApplicationsSection applications={mine.open} />}
           {overview && (

@@ -71,6 +71,8 @@ export const applications = pgTable(
     decidedAt: timestamp({ withTimezone: true }),
     duplicatedFromId: uuid(),
     renewalOfPermitId: uuid(),
+    // The permit this application amends after its apparatus changed (lib/rereview/amend.ts).
+    amendmentOfPermitId: uuid(),
     createdAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
   },
@@ -85,6 +87,12 @@ export const applications = pgTable(
     index("application_waiting_idx")
       .on(t.waitingSince.asc().nullsLast(), t.seq)
       .where(sql`${t.state} IN ('submitted', 'in_review')`),
+    index("application_amendment_idx")
+      .on(t.amendmentOfPermitId)
+      .where(sql`${t.amendmentOfPermitId} IS NOT NULL`),
+    index("application_apparatus_idx")
+      .on(t.apparatusId)
+      .where(sql`${t.apparatusId} IS NOT NULL`),
     check("application_tier_range", sql`${t.tier} IS NULL OR ${t.tier} BETWEEN 0 AND 4`),
   ],
 );

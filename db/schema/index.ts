@@ -9,3 +9,4 @@ export * from "./applications";
 export * from "./review";
 export * from "./permits";
 export * from "./ratelimit";
+export * from "./apparatus-changes";

@@ -3,8 +3,9 @@ import { eq, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { apparatus, apparatusRevisions } from "@/db/schema";
 import { writeAudit } from "@/lib/audit";
+import type { Tx } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
-import { assessSetup } from "@/lib/hazard";
+import { assessSetup, type Assessment, type SetupInput } from "@/lib/hazard";
 import { currentTierRules } from "@/lib/hazard-rules";
 import { AppError, conflict, forbidden, notFound } from "@/lib/errors";
 import type { ApparatusCreateInput, ApparatusUpdateInput } from "@/lib/apparatus/schemas";
@@ -63,7 +64,33 @@ export async function createApparatus(user: CurrentUser, input: ApparatusCreateI
   });
 }
 
-export async function updateApparatus(user: CurrentUser, id: string, input: ApparatusUpdateInput) {
+/** A revision just written, as handed to `inTransaction` before its transaction commits. */
+export type SavedApparatusRevision = {
+  id: string;
+  revision: number;
+  revisionId: string;
+  name: string;
+  room: string;
+  notes: string;
+  setup: SetupInput;
+  assessment: Assessment;
+};
+
+export type UpdateApparatusOptions = {
+  /**
+   * Runs inside the revision's transaction, after the revision and its audit row: what other domains
+   * record about the change (lib/rereview flags the permits that cover the apparatus) commits or
+   * rolls back with it. The registry itself knows nothing of permits.
+   */
+  inTransaction?: (tx: Tx, saved: SavedApparatusRevision) => Promise<void>;
+};
+
+export async function updateApparatus(
+  user: CurrentUser,
+  id: string,
+  input: ApparatusUpdateInput,
+  options: UpdateApparatusOptions = {},
+) {
   assertCan(user, "apparatus.write");
   const assessment = assessSetup(input.setup, await currentTierRules());
   return db.transaction(async (tx) => {
@@ -121,6 +148,16 @@ export async function updateApparatus(user: CurrentUser, id: string, input: Appa
       entityType: "apparatus",
       entityId: id,
       data: { revision: next, revisionId: revision.id, tier: assessment.tier },
+    });
+    await options.inTransaction?.(tx, {
+      id,
+      revision: next,
+      revisionId: revision.id,
+      name: input.name,
+      room: input.room,
+      notes: input.notes,
+      setup: input.setup,
+      assessment,
     });
     return { id, revision: next, revisionId: revision.id, tier: assessment.tier };
   });

@@ -71,6 +71,27 @@ export type MailMessage =
         recipient?: "holder" | "reviewer";
         holderName?: string;
       };
+    }
+  | {
+      // An apparatus was saved as a new revision while active permits cover it (lib/rereview).
+      kind: "apparatus_changed";
+      data: {
+        apparatusId: string;
+        apparatusName: string;
+        revision: number;
+        changedByName: string;
+        /** Why this recipient gets it: they hold one of the permits, or they are a safety officer. */
+        recipient: "holder" | "officer";
+        permits: {
+          permitId: string;
+          permitNumber: string;
+          title: string;
+          permitTier: number;
+          tier: number;
+          /** What changed since the permit's approval, "label: before → after" with units (first rows). */
+          changes: string[];
+        }[];
+      };
     };
 
 export type MailKind = MailMessage["kind"];
@@ -100,6 +121,11 @@ function subjectFor(message: MailMessage): string {
       if (message.data.daysLeft <= 0) return `Permit ${message.data.permitNumber} has expired`;
       if (message.data.daysLeft === 1) return `Permit ${message.data.permitNumber}: last valid day today`;
       return `Permit ${message.data.permitNumber}: ${message.data.daysLeft} days left`;
+    case "apparatus_changed": {
+      const [first, ...rest] = message.data.permits;
+      const under = rest.length ? `${rest.length + 1} active permits` : `permit ${first?.permitNumber ?? ""}`;
+      return `Apparatus changed under ${under}: ${message.data.apparatusName}`;
+    }
   }
 }
 

@@ -6,7 +6,7 @@ import type { Assessment } from "@/lib/hazard";
 import { audienceLabel, eventKindLabel, fieldLabel, figureRows, formatFieldValue, formatPerson } from "./present";
 
 export type DiffSection =
-  "Event" | "Apparatus" | "Energy sources" | "Spark gaps" | "Controls" | "Attachments" | "Figures";
+  "Event" | "Apparatus" | "Energy sources" | "Spark gaps" | "Bleeders" | "Controls" | "Attachments" | "Figures";
 
 export type DiffEntry = {
   section: DiffSection;
@@ -103,6 +103,20 @@ function setupRows(content: Record<string, unknown>): Row[] {
       });
     }
   });
+  // Bleeders wired across sources (engine v2), beside a source's own bleeder_ohm.
+  list(setup.bleeders).forEach((raw, i) => {
+    const bleeder = rec(raw);
+    const name = `Bleeder ${i + 1}${typeof bleeder.id === "string" && bleeder.id ? ` (${bleeder.id})` : ""}`;
+    for (const [field, value] of Object.entries(bleeder)) {
+      if (field === "id") continue;
+      rows.push({
+        section: "Bleeders",
+        path: `apparatus.setup.bleeders[${i}].${field}`,
+        label: `${name}: ${fieldLabel(field)}`,
+        value: formatFieldValue(field, value),
+      });
+    }
+  });
   return rows;
 }
 
@@ -179,6 +193,7 @@ export function revisionDiff(before: RevisionView, after: RevisionView): DiffEnt
     "Apparatus",
     "Energy sources",
     "Spark gaps",
+    "Bleeders",
     "Controls",
     "Attachments",
     "Figures",

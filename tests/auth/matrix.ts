@@ -7,6 +7,7 @@ import { MAIL_ROWS } from "./matrix-rows/mail";
 import { OPERATIONS_ROWS } from "./matrix-rows/operations";
 import { PDF_VERIFY_ROWS } from "./matrix-rows/pdf-verify";
 import { REVIEW_ROWS } from "./matrix-rows/review";
+import { REREVIEW_ROWS } from "./matrix-rows/rereview";
 
 export type { MatrixRow, Principal, Expectation, MatrixContext } from "./matrix-kit";
 
@@ -17,4 +18,5 @@ export const MATRIX = [
   ...OPERATIONS_ROWS,
   ...PDF_VERIFY_ROWS,
   ...REVIEW_ROWS,
+  ...REREVIEW_ROWS,
 ];

@@ -80,6 +80,26 @@ const MESSAGES: MailMessage[] = [
       holderName: "Imogen Tallis",
     },
   },
+  {
+    kind: "apparatus_changed",
+    data: {
+      apparatusId: id,
+      apparatusName: "Capacitor bank, room B12",
+      revision: 3,
+      changedByName: "Imogen Tallis",
+      recipient: "holder",
+      permits: [
+        {
+          permitId,
+          permitNumber: "HV-2026-0007",
+          title,
+          permitTier: 2,
+          tier: 3,
+          changes: ["Source 1 (C1): Capacitance: 500 nF → 1.00 µF"],
+        },
+      ],
+    },
+  },
 ];
 
 const LINK: Record<MailMessage["kind"], string> = {
@@ -91,6 +111,7 @@ const LINK: Record<MailMessage["kind"], string> = {
   application_rejected: `/applications/${id}`,
   permit_revoked: `/permits/${permitId}`,
   permit_reminder: `/permits/${permitId}`,
+  apparatus_changed: `/permits/${permitId}`,
 };
 
 describe("e-mail bodies", () => {

@@ -57,6 +57,8 @@ export function buildContent(options: {
   lastDay?: string;
   audience?: "none" | "students" | "public";
   audienceSize?: number;
+  /** A registry record and revision the set-up comes from (its set-up is then `setup`). */
+  apparatus?: { id: string; revisionId: string; name: string };
 }): ApplicationContent {
   const setup = options.setup ?? TIER_SETUPS[options.tier];
   const assessment = assessSetup(setup);
@@ -73,9 +75,9 @@ export function buildContent(options: {
       operators: (options.operators ?? []).map((o) => ({ userId: o.id, name: o.name, trained: true })),
     },
     apparatus: {
-      apparatusId: null,
-      apparatusRevisionId: null,
-      name: "Capacitor bank on the lecture bench",
+      apparatusId: options.apparatus?.id ?? null,
+      apparatusRevisionId: options.apparatus?.revisionId ?? null,
+      name: options.apparatus?.name ?? "Capacitor bank on the lecture bench",
       room: options.room ?? "B12",
       notes: "",
       setup,
@@ -108,6 +110,7 @@ export async function createSubmittedApplication(options: {
   lastDay?: string;
   audience?: "none" | "students" | "public";
   audienceSize?: number;
+  apparatus?: { id: string; revisionId: string; name: string };
   /** Back-date the wait (for the queue's age filter and sort). */
   waitingSince?: Date;
 }): Promise<Fixture> {
@@ -121,6 +124,7 @@ export async function createSubmittedApplication(options: {
     lastDay: options.lastDay,
     audience: options.audience,
     audienceSize: options.audienceSize,
+    apparatus: options.apparatus,
   });
   const assessment = assessSetup(content.apparatus.setup);
   if (assessment.tier !== options.tier)
@@ -136,6 +140,8 @@ export async function createSubmittedApplication(options: {
         applicantId: options.applicant.id,
         departmentId,
         namedUserIds: options.namedUserIds ?? [],
+        apparatusId: content.apparatus.apparatusId,
+        apparatusRevisionId: content.apparatus.apparatusRevisionId,
         // The draft that produced this content, as the form would have saved it.
         draft: draftFromContent(content) as unknown as Record<string, unknown>,
         tier: assessment.tier,

@@ -22,6 +22,7 @@ import { figureRows, formatPerson } from "@/lib/review/present";
 import { printAudience, printDays } from "@/lib/pdf/content";
 import { AUDIENCE_LABELS, EVENT_KIND_LABELS, type ApplicationContent } from "@/lib/applications/schemas";
 import { SignatureList } from "@/app/_components/signature-list";
+import { ApparatusChangedBanner } from "@/app/_components/rereview/apparatus-changed-banner";
 import { RenewButton, RevokeForm } from "./_components/permit-actions";
 
 export const metadata: Metadata = { title: "Permit" };
@@ -89,6 +90,7 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
           The last valid day was {formatDate(permit.validTo)}. Renew it to operate the set-up again.
         </Alert>
       )}
+      <ApparatusChangedBanner user={user} permitId={permit.id} />
       {renewalOpen && (
         <Alert tone="info" title="Renewal under way" className="mb-6">
           <Link href={`/applications/${found.renewal!.id}`} className="underline">

@@ -15,6 +15,8 @@ function describe(e: TimelineEvent): string {
   const d = e.data;
   switch (e.action) {
     case "application.created":
+      if (d.amendmentOfPermitId)
+        return `Started as an amendment of permit ${str(d.permitNumber)}, with apparatus revision ${str(d.apparatusRevision)}`;
       return d.renewalOfPermitId ? `Started as a renewal of permit ${str(d.permitNumber)}` : "Draft started";
     case "application.duplicated":
       return "Started as a copy of an earlier application";
