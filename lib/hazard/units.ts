@@ -13,7 +13,9 @@ export type Dimension =
   | "frequency"
   | "energy"
   | "charge"
-  | "time";
+  | "time"
+  | "power"
+  | "specific energy";
 
 /** The unit a bare number means, and the unit parseQuantity returns. Temperature is in °C because
  * the engine's fields are (`temperature_C`). */
@@ -29,6 +31,9 @@ export const BASE_UNIT: Readonly<Record<Dimension, string>> = {
   energy: "J",
   charge: "C",
   time: "s",
+  power: "W",
+  // The action integral ∫i²dt of IEC 60479-2; a prefix on it would be misread, so it takes none.
+  "specific energy": "A\u00b2s",
 };
 
 const EXAMPLE: Readonly<Record<Dimension, string>> = {
@@ -43,6 +48,8 @@ const EXAMPLE: Readonly<Record<Dimension, string>> = {
   energy: "3 J",
   charge: "45 µC",
   time: "5 s",
+  power: "1 kW",
+  "specific energy": "0.0025 A²s",
 };
 
 /** SI prefixes as powers of ten. "u" stands in for µ where the keyboard has none; the micro sign
@@ -93,6 +100,7 @@ const PREFIXABLE: Readonly<Record<string, UnitDef>> = {
   J: unit("energy"),
   C: unit("charge"),
   s: unit("time"),
+  W: unit("power"),
 };
 
 // One standard atmosphere is 101325 Pa exactly and the torr is 1/760 of it; the conventional
@@ -115,6 +123,10 @@ const PLAIN: Readonly<Record<string, UnitDef[]>> = {
   psi: [unit("pressure", 0, 6894.757293168)],
   min: [unit("time", 0, 60)],
   h: [unit("time", 0, 3600)],
+  "A\u00b2s": [unit("specific energy")],
+  A2s: [unit("specific energy")],
+  "A^2s": [unit("specific energy")],
+  "A^2 s": [unit("specific energy")],
   megohm: [unit("resistance", 6)],
   megohms: [unit("resistance", 6)],
   "\u00b0C": [unit("temperature")],
@@ -160,6 +172,8 @@ const COMMON_SPELLINGS: Readonly<Record<Dimension, readonly string[]>> = {
   energy: ["µJ", "mJ", "J", "kJ", "MJ"],
   charge: ["pC", "nC", "µC", "uC", "mC", "C"],
   time: ["ns", "µs", "us", "ms", "s", "min", "h"],
+  power: ["mW", "W", "kW", "MW"],
+  "specific energy": ["A²s", "A2s"],
 };
 
 export type QuantityErrorCode =

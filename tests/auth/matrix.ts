@@ -8,6 +8,7 @@ import { OPERATIONS_ROWS } from "./matrix-rows/operations";
 import { PDF_VERIFY_ROWS } from "./matrix-rows/pdf-verify";
 import { REVIEW_ROWS } from "./matrix-rows/review";
 import { REREVIEW_ROWS } from "./matrix-rows/rereview";
+import { RULES_SEARCH_ROWS } from "./matrix-rows/rules-search";
 
 export type { MatrixRow, Principal, Expectation, MatrixContext } from "./matrix-kit";
 
@@ -19,4 +20,5 @@ export const MATRIX = [
   ...PDF_VERIFY_ROWS,
   ...REVIEW_ROWS,
   ...REREVIEW_ROWS,
+  ...RULES_SEARCH_ROWS,
 ];

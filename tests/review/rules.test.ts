@@ -208,7 +208,12 @@ describe("adopting rule sets", () => {
     broken.rulesVersion = "local-broken";
     broken.touchSafe.dcVoltage = { ...broken.touchSafe.dcVoltage, unit: "kV" };
     expect(issuesOf({ kind: "tier", rules: broken })).toEqual([
-      { path: "rules.touchSafe.dcVoltage.unit", message: 'must be "V"' },
+      {
+        path: "rules.touchSafe.dcVoltage.unit",
+        // The threshold named in words (lib/rules/thresholds.ts), then the engine's own finding.
+        message:
+          'Tier 0 · touch-safe up to: DC voltage at or below which a part is touch-safe (rules.touchSafe.dcVoltage) must be "V"',
+      },
     ]);
 
     const unordered = structuredClone(DEFAULT_RULES);

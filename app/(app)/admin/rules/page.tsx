@@ -14,7 +14,8 @@ import {
 import { institutionTimeZone } from "@/lib/settings/queries";
 import { todayIn } from "@/lib/permits/dates";
 import { editableSettings } from "@/lib/settings/queries";
-import { ChainRulesForm, PermitPrefixForm, ReminderForm, TierRulesForm } from "./rules-forms";
+import { ChainRulesForm, PermitPrefixForm, ReminderForm } from "./rules-forms";
+import { TierRulesForm } from "./tier-rules-form";
 
 export const metadata: Metadata = { title: "Rules" };
 
@@ -108,9 +109,9 @@ export default async function AdminRulesPage() {
         <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_20rem]">
           <Card
             title={`Tier thresholds · ${tier.rules.rulesVersion}`}
-            description="The hazard engine's thresholds. New assessments use the adopted set; stored ones keep theirs."
+            description="The hazard engine's thresholds, one per row, typed as on the application form (4.7 nF, 30 kV). New assessments use the adopted set; stored ones keep theirs. A higher tier's threshold must stay above the lower tier's."
           >
-            <TierRulesForm rulesJson={JSON.stringify(tier.rules, null, 2)} />
+            <TierRulesForm rules={tier.rules} />
           </Card>
           <Card title="Threshold history">
             <History timeZone={timeZone} rows={tierHistory} builtIn="the engine's defaults (benchclear-default-1)" />

@@ -8,7 +8,8 @@ import { Field, FieldShell, controlClasses } from "@/app/_components/field";
 import { ApiError, apiFetch } from "@/lib/client/api";
 import type { ChainRules, Requirement, StepRole } from "@/lib/rules/chain";
 
-// The admin's three rule forms, and the permit number prefix. Each rule form adopts a new version
+// The admin's chain and reminder rule forms, and the permit number prefix (the tier thresholds are
+// tier-rules-form.tsx). Each rule form adopts a new version
 // through POST /api/admin/rules; the prefix goes to PATCH /api/admin/settings. The server validates
 // again and names the field of any problem.
 
@@ -328,60 +329,6 @@ export function ReminderForm({ daysBefore }: { daysBefore: number[] }) {
       <Field label="Note for the record" name="reminder-note" value={note} onChange={(e) => setNote(e.target.value)} />
       <Button type="submit" disabled={busy} className="self-start">
         {busy ? "Adopting…" : "Adopt the schedule"}
-      </Button>
-    </form>
-  );
-}
-
-export function TierRulesForm({ rulesJson }: { rulesJson: string }) {
-  const router = useRouter();
-  const [text, setText] = useState(rulesJson);
-  const [note, setNote] = useState("");
-  const [status, setStatus] = useState<Status>(null);
-  const [busy, setBusy] = useState(false);
-
-  async function submit(event: React.FormEvent) {
-    event.preventDefault();
-    let rules: unknown;
-    try {
-      rules = JSON.parse(text);
-    } catch {
-      setStatus({ tone: "error", text: "The thresholds are not valid JSON." });
-      return;
-    }
-    setBusy(true);
-    const result = await adopt({ kind: "tier", note, rules });
-    setStatus(result);
-    setBusy(false);
-    if (result?.tone === "success") router.refresh();
-  }
-
-  return (
-    <form onSubmit={submit} noValidate className="flex flex-col gap-4">
-      <StatusBox status={status} />
-      <FieldShell
-        label="Thresholds (JSON, SI base units)"
-        hint="Give the set a new rulesVersion name. Every threshold keeps its unit and names its source; tiers must ascend."
-        error={
-          status?.tone === "error"
-            ? status.issues?.[0] && `${status.issues[0].path}: ${status.issues[0].message}`
-            : undefined
-        }
-      >
-        {(a11y) => (
-          <textarea
-            {...a11y}
-            rows={18}
-            spellCheck={false}
-            value={text}
-            onChange={(e) => setText(e.target.value)}
-            className={`${controlClasses} figure text-xs`}
-          />
-        )}
-      </FieldShell>
-      <Field label="Note for the record" name="tier-note" value={note} onChange={(e) => setNote(e.target.value)} />
-      <Button type="submit" disabled={busy} className="self-start">
-        {busy ? "Adopting…" : "Adopt these thresholds"}
       </Button>
     </form>
   );
