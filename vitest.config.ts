@@ -2,8 +2,12 @@ import path from "node:path";
 import { defineConfig } from "vitest/config";
 
 // Tests run against the real PostgreSQL that scripts/test.mjs starts; DATABASE_URL points at the
-// separate test database. Files run one at a time because they share that database.
+// separate test database. Files run one at a time because they share that database; a full run starts
+// several copies of the set-up, each with its own database, and splits the files over them.
 export default defineConfig({
+  // `npm test` runs several vitest processes at once (scripts/test.mjs); each keeps its own cache of
+  // file durations, so none reads a file another is writing.
+  cacheDir: path.join("node_modules/.vite", process.env.TEST_DB_NAME ?? "benchclear_test"),
   resolve: {
     alias: {
       "@": path.resolve(import.meta.dirname),
