@@ -127,6 +127,7 @@ const LIB_DOMAINS = {
     "tier-colours",
     "tier-glyph",
     "verify",
+    "http/ids.ts",
   ],
   // Delivering mail renders emails/ and attaches permit PDFs and calendar files.
   mail: ["audit", "calendar", "env", "errors", "outbox", "pdf", "permits", "settings", "users/invitation-token.ts"],

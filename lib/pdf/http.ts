@@ -1,6 +1,7 @@
 import "server-only";
 import { z } from "zod";
 import { AppError, notFound } from "@/lib/errors";
+import { isRecordId } from "@/lib/http/ids";
 import type { CurrentUser } from "@/lib/auth/guards";
 import { getPermitDocumentFor } from "./store";
 import type { DocumentKind, PaperSize } from "./types";
@@ -11,8 +12,6 @@ import type { DocumentKind, PaperSize } from "./types";
 export const documentQuerySchema = z.strictObject({
   size: z.enum(["a4", "letter"], { error: 'Choose the paper size "a4" or "letter".' }).default("a4"),
 });
-
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 /**
  * These are links people open in the browser, so a visitor without a valid session (signed out, or a
@@ -31,7 +30,7 @@ export async function permitDocumentResponse(input: {
   kind: DocumentKind;
   size: PaperSize;
 }): Promise<Response> {
-  if (!input.permitId || !UUID.test(input.permitId)) throw notFound("That permit");
+  if (!input.permitId || !isRecordId(input.permitId)) throw notFound("That permit");
   const file = await getPermitDocumentFor(input.user, input.permitId, { kind: input.kind, size: input.size });
   if (!/^[A-Za-z0-9._-]+$/.test(file.filename))
     throw new AppError("bad_request", "The permit has no printable file name.");
