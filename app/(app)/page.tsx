@@ -35,7 +35,8 @@ export default async function DashboardPage() {
     applies ? myDashboardApplications(user) : null,
     expiringPermits(user, 30),
     reviews ? queueCountsByTier(user) : null,
-    reviews ? listQueue(user, { scope: "mine" }) : null,
+    // Only the oldest: no count, one row.
+    reviews ? listQueue(user, { scope: "mine" }, new Date(), { pageSize: 1, count: false }) : null,
     administers ? adminOverview(user) : null,
     institutionTimeZone(),
   ]);

@@ -5,7 +5,7 @@ import { TierGlyph } from "./tier-glyph";
 type TierBadgeProps = {
   tier: Tier;
   /** Optional count shown after the label, e.g. applications waiting at this tier. */
-  count?: number;
+  count?: number | string;
   /** What the count counts, for screen readers ("3 applications"). */
   countNoun?: string;
   size?: "sm" | "md";

@@ -21,6 +21,9 @@ import { allChainRules, chainRulesFor } from "@/lib/rules/queries";
 import { revisionDiff, type DiffEntry } from "./diff";
 import { decisionOptions, pendingStep, type DecisionOptions } from "./policy";
 import { canReadApplication } from "@/lib/applications/access";
+import { QUEUE_COUNT_CAP } from "./counts";
+
+export { QUEUE_COUNT_CAP };
 
 // Reads for the review queue, the application record page and the audit export.
 
@@ -99,7 +102,12 @@ export type QueueRow = {
 };
 
 /** The review queue: waiting applications, oldest wait first, one page at a time. */
-export async function listQueue(user: CurrentUser, filters: QueueFilters = {}, now = new Date()) {
+export async function listQueue(
+  user: CurrentUser,
+  filters: QueueFilters = {},
+  now = new Date(),
+  { pageSize = QUEUE_PAGE_SIZE, count: withCount = true }: { pageSize?: number; count?: boolean } = {},
+) {
   const role = pendingRoleSql(await allChainRules());
   const actionable = actionableBy(user, role);
   const where = and(
@@ -114,7 +122,7 @@ export async function listQueue(user: CurrentUser, filters: QueueFilters = {}, n
       : undefined,
   );
   const page = Math.max(1, Math.floor(filters.page ?? 1));
-  const [rows, [total]] = await Promise.all([
+  const [fetched, [counted]] = await Promise.all([
     db
       .select({
         id: applications.id,
@@ -135,26 +143,52 @@ export async function listQueue(user: CurrentUser, filters: QueueFilters = {}, n
       .innerJoin(departments, eq(departments.id, applications.departmentId))
       .where(where)
       .orderBy(sql`${applications.waitingSince} ASC NULLS LAST`, asc(applications.seq))
-      .limit(QUEUE_PAGE_SIZE)
-      .offset((page - 1) * QUEUE_PAGE_SIZE),
-    db.select({ n: count() }).from(applications).where(where),
+      // One more than a page: whether there is a next page, without counting them all.
+      .limit(pageSize + 1)
+      .offset((page - 1) * pageSize),
+    withCount
+      ? db.select({ n: count() }).from(
+          db
+            .select({ one: sql`1` })
+            .from(applications)
+            .where(where)
+            .limit(QUEUE_COUNT_CAP + 1)
+            .as("capped"),
+        )
+      : Promise.resolve([{ n: 0 }]),
   ]);
-  return { rows: rows as QueueRow[], total: Number(total?.n ?? 0), page, pageSize: QUEUE_PAGE_SIZE };
+  const n = Number(counted?.n ?? 0);
+  return {
+    rows: fetched.slice(0, pageSize) as QueueRow[],
+    /** How many wait, up to QUEUE_COUNT_CAP; `more` says there are more than that. */
+    total: Math.min(n, QUEUE_COUNT_CAP),
+    more: n > QUEUE_COUNT_CAP,
+    hasNext: fetched.length > pageSize,
+    page,
+    pageSize,
+  };
 }
 
-/** Applications waiting for this user's signature, by tier (the dashboard's queue card). */
-export async function queueCountsByTier(user: CurrentUser): Promise<Record<0 | 1 | 2 | 3 | 4, number>> {
-  const counts: Record<0 | 1 | 2 | 3 | 4, number> = { 0: 0, 1: 0, 2: 0, 3: 0, 4: 0 };
+/** Each tier's count, up to QUEUE_COUNT_CAP + 1 (read as "more than the cap"). */
+export type CappedTierCounts = Record<0 | 1 | 2 | 3 | 4, number>;
+
+/**
+ * Applications waiting for this user's signature, by tier (the dashboard's queue card), each count
+ * stopping at QUEUE_COUNT_CAP + 1 so that its cost does not grow with the backlog.
+ */
+export async function queueCountsByTier(user: CurrentUser): Promise<CappedTierCounts> {
+  const counts: CappedTierCounts = { 0: 0, 1: 0, 2: 0, 3: 0, 4: 0 };
   if (!can(user, "application.review")) return counts;
   const role = pendingRoleSql(await allChainRules());
-  const rows = await db
-    .select({ tier: applications.tier, n: count() })
-    .from(applications)
-    .where(and(WAITING, queueScope(user), actionableBy(user, role)))
-    .groupBy(applications.tier);
-  for (const row of rows) {
-    if (row.tier !== null && row.tier in counts) counts[row.tier as 0 | 1 | 2 | 3 | 4] = Number(row.n);
-  }
+  const where = and(WAITING, queueScope(user), actionableBy(user, role));
+  const result = await db.execute<{ tier: number; n: string }>(sql`
+    SELECT t.tier, (
+      SELECT count(*) FROM (
+        SELECT 1 FROM ${applications} WHERE ${where} AND ${applications.tier} = t.tier LIMIT ${QUEUE_COUNT_CAP + 1}
+      ) AS capped
+    ) AS n
+    FROM (VALUES (0), (1), (2), (3), (4)) AS t(tier)`);
+  for (const row of result.rows) counts[Number(row.tier) as 0 | 1 | 2 | 3 | 4] = Number(row.n);
   return counts;
 }
 

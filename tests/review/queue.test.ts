@@ -4,7 +4,8 @@ import { getDb } from "@/db";
 import { applications } from "@/db/schema";
 import { AppError } from "@/lib/errors";
 import { decide } from "@/lib/review/decide";
-import { listQueue, QUEUE_PAGE_SIZE, queueCountsByTier } from "@/lib/review/queries";
+import { cappedCount, cappedSum } from "@/lib/review/counts";
+import { listQueue, QUEUE_COUNT_CAP, QUEUE_PAGE_SIZE, queueCountsByTier } from "@/lib/review/queries";
 import { createUser, requireDatabase, TEST_PASSWORD } from "../support/db";
 import { asActor, createSubmittedApplication, createTeam } from "./support";
 
@@ -97,6 +98,45 @@ describe("the review queue", () => {
     const seen = new Set([...first.rows, ...second.rows].map((r) => r.id));
     expect(seen.size).toBe(n);
   });
+
+  it(
+    'stops counting past the cap, reads it as "100+", and still pages to the last one',
+    { timeout: 120_000 },
+    async () => {
+      const team = await createTeam();
+      const n = QUEUE_COUNT_CAP + 2;
+      const ids: string[] = [];
+      for (let i = 0; i < n; i++) {
+        const { application } = await createSubmittedApplication({
+          applicant: team.instructor,
+          tier: 1,
+          waitingSince: daysAgo(n - i),
+        });
+        ids.push(application.id);
+      }
+      await createSubmittedApplication({ applicant: team.instructor, tier: 2 });
+      const reviewer = asActor(team.reviewer);
+
+      const counts = await queueCountsByTier(reviewer);
+      expect(counts[1]).toBe(QUEUE_COUNT_CAP + 1);
+      expect(counts[2]).toBe(1);
+      expect(cappedCount(counts[1])).toBe(`${QUEUE_COUNT_CAP}+`);
+      expect(cappedSum(counts)).toEqual({ n: QUEUE_COUNT_CAP + 1, label: `${QUEUE_COUNT_CAP + 1}+` });
+
+      const first = await listQueue(reviewer, { tier: 1 });
+      expect(first).toMatchObject({ total: QUEUE_COUNT_CAP, more: true, hasNext: true });
+      const lastPage = Math.ceil(n / QUEUE_PAGE_SIZE);
+      const last = await listQueue(reviewer, { tier: 1, page: lastPage });
+      expect(last.hasNext).toBe(false);
+      expect(last.rows.map((r) => r.id)).toEqual(ids.slice((lastPage - 1) * QUEUE_PAGE_SIZE));
+      const beforeLast = await listQueue(reviewer, { tier: 1, page: lastPage - 1 });
+      expect(beforeLast.hasNext).toBe(true);
+
+      // Under the cap the count is exact and says so.
+      const tier2 = await listQueue(reviewer, { tier: 2 });
+      expect(tier2).toMatchObject({ total: 1, more: false, hasNext: false });
+    },
+  );
 
   it("counts what waits for this user by tier", async () => {
     const team = await createTeam();

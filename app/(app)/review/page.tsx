@@ -12,6 +12,7 @@ import { TIERS, isTier } from "@/app/_components/tier";
 import { TierFilter } from "@/app/_components/tier-filter";
 import { TierBadge } from "@/app/_components/tier-badge";
 import { can, requirePageUser } from "@/lib/auth/guards";
+import { cappedCount, cappedSum } from "@/lib/review/counts";
 import { listQueue, queueCountsByTier, type QueueRow } from "@/lib/review/queries";
 import { queueQuerySchema, type QueueQuery } from "@/lib/review/schemas";
 import { STEP_ROLE_LABELS } from "@/lib/rules/chain";
@@ -128,7 +129,7 @@ export default async function ReviewQueuePage({
     queueCountsByTier(user),
     seesAll ? listDepartments() : Promise.resolve([]),
   ]);
-  const total = TIERS.reduce<number>((sum, t) => sum + counts[t], 0);
+  const total = cappedSum(counts);
 
   return (
     <>
@@ -148,13 +149,13 @@ export default async function ReviewQueuePage({
 
       <section aria-labelledby="counts-heading" className="mb-6">
         <h2 id="counts-heading" className="mb-2 text-sm font-medium text-stone-700">
-          Waiting for your signature: <span className="figure">{total}</span>
+          Waiting for your signature: <span className="figure">{total.label}</span>
         </h2>
         <ul className="flex flex-wrap gap-2">
           {TIERS.map((t) => (
             <li key={t}>
               <Link href={`/review${queryString({ tier: t })}`} className="no-underline">
-                <TierBadge tier={t} count={counts[t]} countNoun="waiting for you" />
+                <TierBadge tier={t} count={cappedCount(counts[t])} countNoun="waiting for you" />
               </Link>
             </li>
           ))}
@@ -233,6 +234,8 @@ export default async function ReviewQueuePage({
           page={queue.page}
           pageSize={queue.pageSize}
           total={queue.total}
+          more={queue.more}
+          hasNext={queue.hasNext}
           href={(p) => `/review${queryString(query, p)}`}
           noun={["application", "applications"]}
         />

@@ -2,25 +2,26 @@ import Link from "next/link";
 import { Card } from "../card";
 import { TIERS } from "../tier";
 import { TierBadge } from "../tier-badge";
+import { cappedCount, cappedSum } from "@/lib/review/counts";
 import type { TierCounts } from "./types";
 
 type ReviewQueueSectionProps = {
-  /** Applications waiting for this user's decision, by tier; missing tiers count as 0. */
+  /** Applications waiting for this user's decision, by tier (capped: lib/review/counts); missing tiers count as 0. */
   counts: TierCounts;
 };
 
 export function ReviewQueueSection({ counts }: ReviewQueueSectionProps) {
-  const total = TIERS.reduce<number>((sum, t) => sum + (counts[t] ?? 0), 0);
+  const total = cappedSum(counts);
   return (
     <Card
       title="Review queue by tier"
       description={
-        total === 0 ? (
+        total.n === 0 ? (
           "Nothing waiting."
         ) : (
           <>
-            <span className="figure font-medium text-stone-900">{total}</span>{" "}
-            {total === 1 ? "application waits" : "applications wait"} for your decision.
+            <span className="figure font-medium text-stone-900">{total.label}</span>{" "}
+            {total.label === "1" ? "application waits" : "applications wait"} for your decision.
           </>
         )
       }
@@ -42,7 +43,7 @@ export function ReviewQueueSection({ counts }: ReviewQueueSectionProps) {
                   href={`/review?tier=${tier}`}
                   className="figure min-w-8 rounded px-1.5 text-right text-base font-medium text-ink-800 underline decoration-ink-300 hover:decoration-ink-700"
                 >
-                  {n}
+                  {cappedCount(n)}
                   <span className="sr-only"> waiting at tier {tier}</span>
                 </Link>
               ) : (

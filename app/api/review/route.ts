@@ -5,7 +5,7 @@ import { listQueue } from "@/lib/review/queries";
 import { queueQuerySchema } from "@/lib/review/schemas";
 
 export const GET = route({ access: "application.review", query: queueQuerySchema }, async ({ user, query }) => {
-  const { rows, total, page, pageSize } = await listQueue(user, {
+  const { rows, total, more, hasNext, page, pageSize } = await listQueue(user, {
     tier: query.tier,
     departmentId: query.department,
     state: query.state,
@@ -13,5 +13,6 @@ export const GET = route({ access: "application.review", query: queueQuerySchema
     scope: query.scope,
     page: query.page,
   });
-  return { applications: rows, total, page, pageSize };
+  // total stops at QUEUE_COUNT_CAP (lib/review/counts); totalIsAtLeast says there are more.
+  return { applications: rows, total, totalIsAtLeast: more, hasNext, page, pageSize };
 });
