@@ -382,20 +382,11 @@ export async function pgUp(env) {
     const pwFile = path.join(path.dirname(dir), `.pw-${process.pid}`);
     fs.writeFileSync(pwFile, password + "\n", { mode: 0o600 });
     if (isRoot()) execFileSync("chown", ["postgres:postgres", pwFile]);
-    const init = asPostgres(path.join(bin, "initdb"), [
-      "-D",
-      dir,
-      "-U",
-      PG_USER,
-      `--pwfile=${pwFile}`,
-      "--auth-host=scram-sha-256",
-      "--auth-local=scram-sha-256",
-      "-E",
-      "UTF8",
-      "--locale=C.UTF-8",
-    ]);
-    fs.rmSync(pwFile, { force: true });
-    if (init.status !== 0) throw new SetupError(`initdb failed:\n${init.stderr || init.stdout}`);
+    try {
+      initCluster(bin, dir, pwFile);
+    } finally {
+      fs.rmSync(pwFile, { force: true });
+    }
   }
 
   if (clusterRunning(bin, dir)) {
@@ -429,6 +420,24 @@ export async function pgUp(env) {
   markStartedByScript();
   adoptLegacyCluster(env, bin);
   return { startedHere: true, bin, dir };
+}
+
+/** initdb as every cluster here is made: superuser `benchclear` with the password in pwFile, SCRAM. */
+function initCluster(bin, dir, pwFile, extra = []) {
+  const init = asPostgres(path.join(bin, "initdb"), [
+    "-D",
+    dir,
+    "-U",
+    PG_USER,
+    `--pwfile=${pwFile}`,
+    "--auth-host=scram-sha-256",
+    "--auth-local=scram-sha-256",
+    "-E",
+    "UTF8",
+    "--locale=C.UTF-8",
+    ...extra,
+  ]);
+  if (init.status !== 0) throw new SetupError(`initdb failed:\n${init.stderr || init.stdout}`);
 }
 
 async function waitForPg(bin) {
@@ -476,20 +485,7 @@ export function startScratchCluster({ port, password }) {
     fs.rmSync(base, { recursive: true, force: true });
   };
   try {
-    const init = asPostgres(path.join(bin, "initdb"), [
-      "-D",
-      dir,
-      "-U",
-      PG_USER,
-      `--pwfile=${pwFile}`,
-      "--auth-host=scram-sha-256",
-      "--auth-local=scram-sha-256",
-      "-E",
-      "UTF8",
-      "--locale=C.UTF-8",
-      "--no-sync",
-    ]);
-    if (init.status !== 0) throw new SetupError(`initdb failed:\n${init.stderr || init.stdout}`);
+    initCluster(bin, dir, pwFile, ["--no-sync"]);
     const start = asPostgres(path.join(bin, "pg_ctl"), [
       "start",
       "-D",
