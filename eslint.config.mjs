@@ -68,6 +68,8 @@ const LIB_DOMAINS = {
     "storage",
     "users",
   ],
+  // Training records (issue 17): course types, people's records, the operator check and its reminders.
+  training: ["applications", "audit", "auth", "errors", "outbox", "permits", "settings", "signing", "storage", "users"],
   review: [
     "applications",
     "audit",
@@ -80,6 +82,7 @@ const LIB_DOMAINS = {
     "rules",
     "settings",
     "signing",
+    "training",
     "users",
   ],
   verify: [
@@ -131,7 +134,7 @@ const LIB_DOMAINS = {
   ],
   // Delivering mail renders emails/ and attaches permit PDFs and calendar files.
   mail: ["audit", "calendar", "env", "errors", "outbox", "pdf", "permits", "settings", "users/invitation-token.ts"],
-  jobs: ["audit", "env", "errors", "mail", "outbox", "permits", "rules", "settings"],
+  jobs: ["audit", "env", "errors", "mail", "outbox", "permits", "rules", "settings", "training"],
 };
 // emails/ renders messages the outbox holds; it may use these lib domains and nothing else.
 const EMAILS_MAY_USE = ["about-figures", "hazard", "outbox", "tier-colours", "tier-glyph"];

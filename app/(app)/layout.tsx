@@ -13,6 +13,7 @@ const NAV_PERMISSION: Partial<Record<NavItem["key"], Permission>> = {
   review: "application.review",
   permits: "apparatus.read",
   admin: "admin.users",
+  training: "training.record",
 };
 
 function visibleNav(user: CurrentUser): NavItem[] {

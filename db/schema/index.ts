@@ -10,3 +10,4 @@ export * from "./review";
 export * from "./permits";
 export * from "./ratelimit";
 export * from "./apparatus-changes";
+export * from "./training";

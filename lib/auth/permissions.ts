@@ -25,6 +25,11 @@ export const PERMISSIONS = {
   // Walking the audit chain and the decision seals (/admin/records).
   "admin.records": ["admin"],
   "dev.mail": ["admin"],
+  // Training records (issue 17): admins define course types; officers and admins record training and
+  // read anyone's record; officers get the reminders before a course lapses.
+  "training.courses": ["admin"],
+  "training.record": ["safety_officer", "admin"],
+  "training.reminded": ["safety_officer"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

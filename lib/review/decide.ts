@@ -38,6 +38,7 @@ import { activeEmails } from "@/lib/users/queries";
 import { checkDecision, type ChainDecisionKind } from "./policy";
 import { separationOfDuties } from "@/lib/signing/duties";
 import type { DecisionBody } from "./schemas";
+import { assertOperatorsTrained } from "./training";
 
 // Signed decisions of the review chain. Each one is a single transaction: the guarded state
 // transition (409 on a lost race), the decision row (unique per revision and step: a second
@@ -48,7 +49,7 @@ function refuse(refusal: { status: 403 | 409; message: string }): AppError {
   return refusal.status === 409 ? conflict(refusal.message) : forbidden(refusal.message);
 }
 
-type Loaded = {
+export type Loaded = {
   application: Application;
   revision: {
     id: string;
@@ -62,7 +63,7 @@ type Loaded = {
   rules: ChainRules;
 };
 
-async function loadForDecision(actor: CurrentUser, applicationId: string, tx: DbOrTx = db): Promise<Loaded> {
+export async function loadForDecision(actor: CurrentUser, applicationId: string, tx: DbOrTx = db): Promise<Loaded> {
   const [application] = await tx.select().from(applications).where(eq(applications.id, applicationId));
   if (!application || !canReadApplication(actor, application)) throw notFound("That application");
   if (!application.currentRevisionId) throw conflict("This application has not been submitted.");
@@ -88,7 +89,7 @@ async function loadForDecision(actor: CurrentUser, applicationId: string, tx: Db
   return { application, revision, rules };
 }
 
-async function signerIdsOf(tx: DbOrTx, revisionId: string): Promise<string[]> {
+export async function signerIdsOf(tx: DbOrTx, revisionId: string): Promise<string[]> {
   const rows = await tx
     .select({ signerId: decisions.signerId })
     .from(decisions)
@@ -195,6 +196,8 @@ export async function decide(
     today = await institutionToday(now);
     window = validityWindow(body, chain.validityDays, today, eventDaysOf(revision.content));
     conditions = [...requirements.map((r) => r.text), ...body.extraConditions];
+    // Named operators' training, through the permit's last day (lib/review/training.ts).
+    await assertOperatorsTrained(application, revision, window.validTo);
   }
   if (body.kind === "approve" || body.kind === "reject") await verifySignerPassword(actor, body.password, ctx);
 

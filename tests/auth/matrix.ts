@@ -9,6 +9,7 @@ import { PDF_VERIFY_ROWS } from "./matrix-rows/pdf-verify";
 import { REVIEW_ROWS } from "./matrix-rows/review";
 import { REREVIEW_ROWS } from "./matrix-rows/rereview";
 import { RULES_SEARCH_ROWS } from "./matrix-rows/rules-search";
+import { TRAINING_ROWS } from "./matrix-rows/training";
 
 export type { MatrixRow, Principal, Expectation, MatrixContext } from "./matrix-kit";
 
@@ -21,4 +22,5 @@ export const MATRIX = [
   ...REVIEW_ROWS,
   ...REREVIEW_ROWS,
   ...RULES_SEARCH_ROWS,
+  ...TRAINING_ROWS,
 ];

@@ -4,6 +4,9 @@ import { PageHeader } from "@/app/_components/page-header";
 import { requirePageUser } from "@/lib/auth/guards";
 import { ROLE_LABELS } from "@/lib/roles";
 import { hasCalendarFeed } from "@/lib/calendar/queries";
+import { TrainingRecordsTable } from "@/app/_components/training/records-table";
+import { institutionToday } from "@/lib/permits/queries";
+import { recordsOf } from "@/lib/training/queries";
 import { CalendarFeed } from "./calendar-feed";
 import { ChangePasswordForm } from "./change-password-form";
 
@@ -28,6 +31,12 @@ export default async function AccountPage() {
         </Card>
         <Card title="Calendar feed">
           <CalendarFeed exists={await hasCalendarFeed(user.id)} />
+        </Card>
+        <Card title="Your training" className="md:col-span-2" flush>
+          <TrainingRecordsTable
+            records={await recordsOf(user, user.id, await institutionToday())}
+            caption="Your training"
+          />
         </Card>
       </div>
     </>

@@ -10,6 +10,7 @@ export default async function AdminLayout({ children }: { children: ReactNode })
     { href: "/admin/users", label: "Users", show: can(user, "admin.users") },
     { href: "/admin/rules", label: "Rules", show: can(user, "admin.rules") },
     { href: "/admin/records", label: "Records", show: can(user, "admin.records") },
+    { href: "/admin/training", label: "Course types", show: can(user, "training.courses") },
     { href: "/dev/mail", label: "Local inbox", show: can(user, "dev.mail") && env().MAIL_TRANSPORT === "local-inbox" },
   ].filter((t) => t.show);
   return (
