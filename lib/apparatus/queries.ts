@@ -180,3 +180,35 @@ export async function listApparatusChoices(user: CurrentUser, limit = 200) {
     .orderBy(desc(apparatus.updatedAt), asc(apparatus.id))
     .limit(limit);
 }
+
+/**
+ * The apparatus inventory for the CSV export: every record the user may read (retired or archived
+ * ones too, marked), with its current revision's set-up and figures. Oldest department first, then name.
+ */
+export async function apparatusForExport(user: CurrentUser) {
+  assertCan(user, "apparatus.read");
+  return db
+    .select({
+      id: apparatus.id,
+      name: apparatus.name,
+      room: apparatus.room,
+      departmentName: departments.name,
+      ownerName: users.name,
+      ownerEmail: users.email,
+      revision: apparatus.currentRevision,
+      tier: apparatus.tier,
+      setup: apparatusRevisions.setup,
+      assessment: apparatusRevisions.assessment,
+      archivedAt: apparatus.archivedAt,
+      updatedAt: apparatus.updatedAt,
+    })
+    .from(apparatus)
+    .innerJoin(users, eq(users.id, apparatus.ownerId))
+    .innerJoin(departments, eq(departments.id, apparatus.departmentId))
+    .innerJoin(
+      apparatusRevisions,
+      and(eq(apparatusRevisions.apparatusId, apparatus.id), eq(apparatusRevisions.revision, apparatus.currentRevision)),
+    )
+    .where(readableBy(user))
+    .orderBy(asc(departments.name), sql`lower(${apparatus.name})`, asc(apparatus.id));
+}

@@ -1,4 +1,5 @@
 import { renderToBuffer } from "@react-pdf/renderer";
+import { AssessmentDocument } from "./assessment-document";
 import { BenchCardDocument } from "./bench-card-document";
 import { registerFonts } from "./fonts";
 import { PermitDocument } from "./permit-document";
@@ -18,6 +19,7 @@ export function countPages(pdf: Buffer): number {
 
 export async function renderDocument(data: PrintData, kind: DocumentKind, size: PaperSize): Promise<Buffer> {
   registerFonts();
+  if (kind === "assessment") return renderToBuffer(<AssessmentDocument data={data} size={size} />);
   const qr = await qrDataUrl(data.permit.verificationUrl);
   if (kind === "permit") return renderToBuffer(<PermitDocument data={data} size={size} qr={qr} />);
   let pdf: Buffer | undefined;

@@ -102,7 +102,7 @@ export async function getPermitDocument(
     bytes = await renderDocument(data, options.kind, options.size);
     await storage.put(key, bytes, "application/pdf");
   }
-  const suffix = options.kind === "bench-card" ? "-bench-card" : "";
+  const suffix = options.kind === "permit" ? "" : `-${options.kind}`;
   return { filename: `${primary.number}${suffix}.pdf`, bytes };
 }
 

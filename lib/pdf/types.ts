@@ -8,7 +8,8 @@ import type { Assessment, SetupInput, Tier } from "@/lib/hazard";
 // same facts, and a new snapshot (a new state) gets new files.
 
 export type PaperSize = "a4" | "letter";
-export type DocumentKind = "permit" | "bench-card";
+/** The permit, its bench card, and the full assessment for the file (assessment-document.tsx). */
+export type DocumentKind = "permit" | "bench-card" | "assessment";
 
 export type PrintSignature = {
   name: string;

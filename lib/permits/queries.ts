@@ -291,6 +291,17 @@ export async function permitsForExport(user: CurrentUser, now = new Date()) {
         validTo: permits.validTo,
         title: applications.title,
         room: sql<string | null>`${applicationRevisions.content} -> 'event' ->> 'room'`,
+        // From the signed revision: the apparatus, its figures (SI base units) and the event.
+        apparatusName: sql<string | null>`${applicationRevisions.content} -> 'apparatus' ->> 'name'`,
+        energy_J: sql<number | null>`(${applicationRevisions.assessment} ->> 'energy_J')::float8`,
+        maxVoltage_V: sql<number | null>`(${applicationRevisions.assessment} ->> 'maxVoltage_V')::float8`,
+        firstDay: sql<string | null>`${applicationRevisions.content} -> 'event' ->> 'firstDay'`,
+        lastDay: sql<string | null>`${applicationRevisions.content} -> 'event' ->> 'lastDay'`,
+        audience: sql<string | null>`${applicationRevisions.content} -> 'event' ->> 'audience'`,
+        audienceSize: sql<number | null>`(${applicationRevisions.content} -> 'event' ->> 'audienceSize')::int`,
+        operators: sql<
+          string[] | null
+        >`(SELECT array_agg(o ->> 'name' ORDER BY n) FROM jsonb_array_elements(CASE WHEN jsonb_typeof(${applicationRevisions.content} -> 'event' -> 'operators') = 'array' THEN ${applicationRevisions.content} -> 'event' -> 'operators' ELSE '[]'::jsonb END) WITH ORDINALITY AS t(o, n))`,
         holderName: users.name,
         holderEmail: users.email,
         departmentName: departments.name,

@@ -10,6 +10,7 @@ import { REVIEW_ROWS } from "./matrix-rows/review";
 import { REREVIEW_ROWS } from "./matrix-rows/rereview";
 import { RULES_SEARCH_ROWS } from "./matrix-rows/rules-search";
 import { TRAINING_ROWS } from "./matrix-rows/training";
+import { EXPORT_ROWS } from "./matrix-rows/exports";
 
 export type { MatrixRow, Principal, Expectation, MatrixContext } from "./matrix-kit";
 
@@ -23,4 +24,5 @@ export const MATRIX = [
   ...REREVIEW_ROWS,
   ...RULES_SEARCH_ROWS,
   ...TRAINING_ROWS,
+  ...EXPORT_ROWS,
 ];

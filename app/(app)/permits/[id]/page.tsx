@@ -210,6 +210,7 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
                 [
                   ["pdf", "Permit"],
                   ["bench-card", "Bench card"],
+                  ["assessment", "Full assessment"],
                 ] as const
               ).map(([path, name]) => (
                 <li key={path} className="flex flex-wrap items-center gap-x-3 gap-y-1">
