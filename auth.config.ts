@@ -5,10 +5,15 @@ import { SESSION_ABSOLUTE_SECONDS, SESSION_IDLE_SECONDS } from "@/lib/auth/sessi
 // carries only the user's id, the session version it was issued under and two timestamps; roles,
 // name and the disabled flag are read from the database on every request (lib/auth/guards.ts).
 
+/** The id of the institution's OpenID Connect provider in Auth.js (its callback path ends in it). */
+export const INSTITUTION_PROVIDER = "institution";
+
 declare module "next-auth" {
   interface Session {
     user: { id: string };
     sv?: number;
+    /** When the person last signed in at the institution's provider (ms since epoch). */
+    authAt?: number;
   }
   interface User {
     sessionVersion?: number;
@@ -20,12 +25,14 @@ declare module "@auth/core/jwt" {
     sv?: number;
     signedInAt?: number; // ms since epoch
     lastSeen?: number; // ms since epoch
+    authAt?: number; // ms since epoch: the provider's auth_time, for institutional sign-ins
+    via?: string; // "institution" for institutional sign-ins
   }
 }
 
 export const authConfig = {
   trustHost: true,
-  pages: { signIn: "/sign-in" },
+  pages: { signIn: "/sign-in", error: "/sign-in" },
   session: { strategy: "jwt", maxAge: SESSION_ABSOLUTE_SECONDS, updateAge: 0 },
   providers: [],
   callbacks: {
@@ -46,7 +53,7 @@ export const authConfig = {
       return token;
     },
     session({ session, token }) {
-      return { ...session, user: { id: token.sub ?? "" }, sv: token.sv } as typeof session;
+      return { ...session, user: { id: token.sub ?? "" }, sv: token.sv, authAt: token.authAt } as typeof session;
     },
   },
 } satisfies NextAuthConfig;

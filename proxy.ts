@@ -69,9 +69,10 @@ export default async function proxy(request: NextRequest, event: NextFetchEvent)
 }
 
 export const config = {
-  // /api/session sets and clears the session cookie itself; a refresh here would race it. Uploads
+  // /api/session and Auth.js's callback (/api/auth/…) set and clear the session cookie themselves; a
+  // refresh here would race them. Uploads
   // skip the proxy so their bodies (up to 10 MB) are not buffered twice.
   matcher: [
-    "/((?!_next/static|_next/image|api/session|api/applications/[^/]+/attachments$|favicon.ico|mark.svg|robots.txt).*)",
+    "/((?!_next/static|_next/image|api/session|api/auth/|api/applications/[^/]+/attachments$|favicon.ico|mark.svg|robots.txt).*)",
   ],
 };

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { isRole, ROLES, type Role } from "./roles";
 
 // Every environment variable Benchclear reads, validated once. `.env.example` documents each one.
 // Server code calls env(); the first call fails fast with a message naming each bad variable.
@@ -7,6 +8,61 @@ const bool = z
   .enum(["true", "false", "1", "0", ""])
   .optional()
   .transform((v) => v === "true" || v === "1");
+
+/** Like `bool`, but on when unset. */
+const boolDefaultTrue = z
+  .enum(["true", "false", "1", "0", ""])
+  .optional()
+  .transform((v) => v === undefined || v === "" || v === "true" || v === "1");
+
+/** A claim name: a JSON member name as providers spell them ("name", "dept_code", "https://x/groups"). */
+const claimName = z
+  .string()
+  .trim()
+  .min(1)
+  .max(200)
+  .regex(/^[\w:/.#-]+$/, "must be a claim name (letters, digits, _ - . : / #)");
+
+const roleNames = ROLES.join(", ");
+
+/** "instructor,reviewer": a comma-separated list of roles (lib/roles.ts). */
+const roleList = z.string().transform((v, ctx): Role[] => {
+  const names = v
+    .split(",")
+    .map((n) => n.trim())
+    .filter(Boolean);
+  const unknown = names.filter((n) => !isRole(n));
+  if (unknown.length || names.length === 0) {
+    ctx.addIssue({
+      code: "custom",
+      message: `must list roles from: ${roleNames} (unknown: ${unknown.join(", ") || "none given"})`,
+    });
+    return z.NEVER;
+  }
+  return [...new Set(names as Role[])];
+});
+
+/** "hv-safety=safety_officer,dept-contacts=reviewer": which group gives which role. */
+const groupRoles = z.string().transform((v, ctx): { group: string; role: Role }[] => {
+  const pairs: { group: string; role: Role }[] = [];
+  for (const part of v
+    .split(",")
+    .map((p) => p.trim())
+    .filter(Boolean)) {
+    const at = part.lastIndexOf("=");
+    const group = part.slice(0, at).trim();
+    const role = part.slice(at + 1).trim();
+    if (at <= 0 || !group || !isRole(role)) {
+      ctx.addIssue({
+        code: "custom",
+        message: `must be group=role pairs separated by commas, roles from: ${roleNames} ("${part}" is not)`,
+      });
+      return z.NEVER;
+    }
+    pairs.push({ group, role });
+  }
+  return pairs;
+});
 
 const port = z.coerce.number().int().min(1).max(65535);
 
@@ -75,6 +131,31 @@ export const envSchema = z
     LOG_INVITATION_LINKS: bool,
     // Where the local inbox keeps messages (read by /dev/mail).
     LOCAL_INBOX_DIR: z.string().min(1).default(".data/mail"),
+    // Institutional sign-in (OpenID Connect, authorization code with PKCE; lib/auth/sso-config.ts).
+    // Set OIDC_ISSUER to turn it on; the client must be registered with the redirect URI
+    // `<APP_URL>/api/auth/callback/institution`.
+    OIDC_ISSUER: z.url({ protocol: /^https?$/, error: "must be the issuer's http(s) URL" }).optional(),
+    OIDC_CLIENT_ID: z.string().min(1).max(400).optional(),
+    OIDC_CLIENT_SECRET: z.string().min(1).max(1000).optional(),
+    // The button's words: "Sign in with <OIDC_DISPLAY_NAME>".
+    OIDC_DISPLAY_NAME: z.string().trim().min(1).max(80).default("your institution's account"),
+    OIDC_SCOPES: z
+      .string()
+      .regex(/(^| )openid( |$)/, 'must include "openid"')
+      .default("openid profile email"),
+    // Claim names for the person's name, e-mail and department (read from the UserInfo answer, then the ID token).
+    OIDC_CLAIM_NAME: claimName.default("name"),
+    OIDC_CLAIM_EMAIL: claimName.default("email"),
+    OIDC_CLAIM_DEPARTMENT: claimName.default("department"),
+    // Optional: a claim listing the person's groups, and which group gives which role on first sign-in
+    // ("group=role,group=role"; roles as in lib/roles.ts).
+    OIDC_CLAIM_GROUPS: claimName.optional(),
+    OIDC_GROUP_ROLES: groupRoles.optional(),
+    // Roles of a new account whose groups map to none (default: instructor).
+    OIDC_DEFAULT_ROLES: roleList.default(["instructor"]),
+    // false: e-mail and password sign-in (and setting or changing a password) is refused; people
+    // sign in through the institution's provider only. Needs OIDC_ISSUER.
+    PASSWORD_SIGN_IN: boolDefaultTrue,
   })
   .superRefine((value, ctx) => {
     if (value.STORAGE_DRIVER === "s3" && !value.S3_BUCKET) {
@@ -89,6 +170,39 @@ export const envSchema = z
         code: "custom",
         path: ["BENCHCLEAR_LOCAL_DEMO"],
         message: "is only for the local demo: APP_URL must then be on this machine (localhost, 127.0.0.1, ::1)",
+      });
+    }
+    if (value.OIDC_ISSUER) {
+      for (const key of ["OIDC_CLIENT_ID", "OIDC_CLIENT_SECRET"] as const) {
+        if (!value[key]) ctx.addIssue({ code: "custom", path: [key], message: "is required when OIDC_ISSUER is set" });
+      }
+      // The provider's answers carry who someone is: only over TLS, except on this machine.
+      if (
+        production &&
+        new URL(value.OIDC_ISSUER).protocol !== "https:" &&
+        !isLoopbackHost(new URL(value.OIDC_ISSUER).hostname)
+      ) {
+        ctx.addIssue({ code: "custom", path: ["OIDC_ISSUER"], message: "must be https:// in production" });
+      }
+    } else {
+      for (const key of ["OIDC_CLIENT_ID", "OIDC_CLIENT_SECRET", "OIDC_CLAIM_GROUPS", "OIDC_GROUP_ROLES"] as const) {
+        if (value[key])
+          ctx.addIssue({ code: "custom", path: [key], message: "is set but OIDC_ISSUER is not (set both or neither)" });
+      }
+    }
+    if (value.OIDC_GROUP_ROLES?.length && !value.OIDC_CLAIM_GROUPS) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["OIDC_CLAIM_GROUPS"],
+        message: "is required when OIDC_GROUP_ROLES is set (the claim listing groups)",
+      });
+    }
+    if (!value.PASSWORD_SIGN_IN && !value.OIDC_ISSUER) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["PASSWORD_SIGN_IN"],
+        message:
+          "can be false only with institutional sign-in configured (OIDC_ISSUER): otherwise nobody could sign in",
       });
     }
     if (production && value.MAIL_TRANSPORT === "local-inbox" && !value.BENCHCLEAR_LOCAL_DEMO) {

@@ -13,6 +13,8 @@ import {
   fail,
   info,
   localEnv,
+  localIdpEnv,
+  startLocalIdp,
   pgUp,
   registerUser,
   releasePg,
@@ -31,6 +33,9 @@ import { nextCommand } from "./lib/next-server.mjs";
 const PORT = Number(process.env.PORT ?? 3000);
 const MAIL_PORT = Number(process.env.SMTP_PORT ?? 1025);
 const pidFile = path.join(dataDir, "run", "next-start.pid");
+// BENCHCLEAR_DEMO_SSO=1: the demo signs in through the local identity provider (scripts/local-idp.mjs)
+// on LOCAL_IDP_PORT, as a university's staff would through theirs.
+const IDP_PORT = Number(process.env.LOCAL_IDP_PORT ?? 3009);
 
 let shuttingDown = false;
 async function shutdown(code = 0) {
@@ -70,6 +75,8 @@ async function main() {
     BENCHCLEAR_LOCAL_DEMO: local.BENCHCLEAR_LOCAL_DEMO ?? "1",
     NEXT_TELEMETRY_DISABLED: "1",
   };
+  const demoSso = ["1", "true"].includes(String(local.BENCHCLEAR_DEMO_SSO ?? "")) && !local.OIDC_ISSUER;
+  if (demoSso) Object.assign(appEnv, localIdpEnv(local, IDP_PORT));
 
   step("Applying database migrations");
   run(bin("tsx"), ["scripts/migrate.ts"], { env: { ...appEnv, NODE_ENV: "development" } });
@@ -89,6 +96,11 @@ async function main() {
   });
   inbox.on("exit", (code) => !shuttingDown && (console.error(`local inbox exited (${code})`), shutdown(1)));
 
+  if (demoSso) {
+    const idp = await startLocalIdp(appEnv, { port: IDP_PORT, appUrl: appEnv.APP_URL, variable: "LOCAL_IDP_PORT" });
+    idp.on("exit", (code) => !shuttingDown && (console.error(`local identity provider exited (${code})`), shutdown(1)));
+  }
+
   step(`Starting Benchclear on http://localhost:${PORT}`);
   const server = startChild("web server", ...nextCommand(["start", "-p", String(PORT), "-H", "127.0.0.1"]), {
     env: { ...appEnv, NODE_ENV: "production", WORKER_IN_APP: local.WORKER_IN_APP ?? "true" },
@@ -100,6 +112,11 @@ async function main() {
   console.log("");
   step(`Benchclear is ready: http://localhost:${PORT}`);
   info("Demo sign-ins (password benchclear-demo-2026): instructor@, reviewer@, officer@, admin@benchclear.test");
+  if (demoSso) {
+    info(
+      `Institutional sign-in: the local identity provider on http://127.0.0.1:${IDP_PORT} (nhalvorsen, treyne, ebrandt; password aldermere-idp-2026)`,
+    );
+  }
   info(`Caught e-mail: http://localhost:${PORT}/dev/mail (as admin). Press Ctrl-C to stop.`);
 }
 

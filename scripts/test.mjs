@@ -17,6 +17,7 @@ import {
   ensureNodeModules,
   fail,
   localEnv,
+  localIdpEnv,
   pgUp,
   registerUser,
   releasePg,
@@ -24,6 +25,7 @@ import {
   root,
   sourceHash,
   startChild,
+  startLocalIdp,
   stopChild,
   step,
   stopAllChildren,
@@ -35,6 +37,9 @@ import { nextCommand } from "./lib/next-server.mjs";
 
 const TEST_PORT = Number(process.env.TEST_PORT ?? 3210);
 const TEST_MAIL_PORT = Number(process.env.TEST_SMTP_PORT ?? 2526);
+// The local identity provider institutional sign-in goes through, one for every copy (past their
+// web and cluster ports: TEST_PORT + 5 × up to 4 copies).
+const TEST_OIDC_PORT = Number(process.env.TEST_OIDC_PORT ?? TEST_PORT + 20);
 const vitestArgs = process.argv.slice(2);
 const quick = process.env.BENCHCLEAR_TEST_QUICK === "1";
 // Several checkouts' or helpers' test runs can share one machine with their own database and build.
@@ -223,6 +228,9 @@ async function main() {
         // The tests stand in for one reverse proxy: each request names its client in X-Forwarded-For
         // (tests/support/http.ts), so tests do not share one address's rate limits.
         TRUSTED_PROXY_HOPS: "1",
+        // Institutional sign-in through the local identity provider (password sign-in stays on).
+        ...localIdpEnv(local, TEST_OIDC_PORT),
+        TEST_OIDC_PORT: String(TEST_OIDC_PORT),
       },
     };
   });
@@ -247,6 +255,12 @@ async function main() {
   const distDir = distDirForTests();
   ensureBuild({ ...testEnv }, distDir);
 
+  await startLocalIdp(testEnv, {
+    port: TEST_OIDC_PORT,
+    redirectUris: copies.map((c) => `${c.baseUrl}/api/auth/callback/institution`),
+    variable: "TEST_OIDC_PORT",
+    quiet: true,
+  });
   const servers = [];
   for (const copy of copies) {
     await requireFreePort(copy.port, `the test web server (${copy.label})`, "TEST_PORT");

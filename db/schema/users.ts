@@ -33,6 +33,10 @@ export const users = pgTable(
     sessionVersion: integer().notNull().default(1),
     disabledAt: timestamp({ withTimezone: true }),
     lastSignInAt: timestamp({ withTimezone: true }),
+    // The institution's identity provider's issuer and subject, once the person signed in through it
+    // (lib/auth/sso.ts): both or neither; the pair is unique.
+    oidcIssuer: text(),
+    oidcSubject: text(),
     // Secret token of the user's calendar feed (permit validity windows); null until requested.
     calendarToken: text().unique(),
     createdAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
@@ -42,6 +46,10 @@ export const users = pgTable(
     uniqueIndex("app_user_email_key").on(sql`lower(${t.email})`),
     index("app_user_department_idx").on(t.departmentId),
     check("app_user_roles_not_empty", sql`cardinality(${t.roles}) > 0`),
+    check("app_user_oidc_pair", sql`(${t.oidcIssuer} IS NULL) = (${t.oidcSubject} IS NULL)`),
+    uniqueIndex("app_user_oidc_identity_key")
+      .on(t.oidcIssuer, t.oidcSubject)
+      .where(sql`${t.oidcSubject} IS NOT NULL`),
   ],
 );
 

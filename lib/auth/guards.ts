@@ -38,6 +38,16 @@ export const getCurrentUser = cache(async (): Promise<CurrentUser | null> => {
   return user;
 });
 
+/**
+ * When this request's session last signed in at the institution's provider (ms since epoch, the
+ * provider's auth_time), or null for a password session: signing by institutional sign-in needs a
+ * recent one (lib/signing/password.ts).
+ */
+export const currentSessionAuthAt = cache(async (): Promise<number | null> => {
+  const session = await auth();
+  return typeof session?.authAt === "number" ? session.authAt : null;
+});
+
 export function can(user: Pick<CurrentUser, "roles"> | null, permission: Permission): boolean {
   return Boolean(user && rolesHave(user.roles, permission));
 }

@@ -67,3 +67,9 @@ export const updateUserSchema = z
   .refine((v) => v.roles !== undefined || v.departmentId !== undefined || v.disabled !== undefined, {
     message: "Nothing to change.",
   });
+
+/** Starting institutional sign-in: where to return, and whether to insist on a fresh sign-in. */
+export const institutionSignInSchema = z.object({
+  from: returnPathSchema,
+  reauth: z.boolean().optional().default(false),
+});

@@ -2,9 +2,10 @@ import "server-only";
 import { and, eq, isNull } from "drizzle-orm";
 import { db } from "@/db";
 import { users } from "@/db/schema";
-import type { CurrentUser } from "@/lib/auth/guards";
+import { currentSessionAuthAt, type CurrentUser } from "@/lib/auth/guards";
 import { verifyPassword } from "@/lib/auth/password";
-import { AppError } from "@/lib/errors";
+import { signInMethods } from "@/lib/auth/sign-in-methods";
+import { AppError, invalidField } from "@/lib/errors";
 import { attempt, clear, peek, tooMany } from "@/lib/ratelimit";
 
 // Approve, reject and revoke re-ask the signer's password first, outside the transaction of the
@@ -14,6 +15,45 @@ import { attempt, clear, peek, tooMany } from "@/lib/ratelimit";
 export type SigningContext = { ip?: string; now?: Date };
 
 const WRONG_PASSWORD = "The password is not correct.";
+
+/**
+ * How long an institutional sign-in counts as fresh for a signature: 5 minutes (300 s), the time to
+ * read a decision and sign it after confirming who you are (common practice for step-up sign-in).
+ */
+export const FRESH_SIGN_IN_SECONDS = 300;
+
+/** How a signer confirms a signature: their Benchclear password, or a fresh institutional sign-in. */
+export type SigningMethod = "password" | "institution";
+
+/**
+ * A person signs with a fresh institutional sign-in when the institution's provider is configured
+ * and they have no Benchclear password, or passwords are turned off (PASSWORD_SIGN_IN=false).
+ */
+export async function signingMethodOf(userId: string): Promise<SigningMethod> {
+  const methods = signInMethods();
+  if (!methods.institution) return "password";
+  if (!methods.password) return "institution";
+  const [row] = await db.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, userId));
+  return row?.passwordHash ? "password" : "institution";
+}
+
+/** What a signing panel needs to know (app/_components/auth/signer-check.tsx): how this person signs. */
+export async function signingFor(
+  userId: string,
+  returnTo: string,
+): Promise<{ method: "password" } | { method: "institution"; name: string; fresh: boolean; returnTo: string }> {
+  const institution = signInMethods().institution;
+  if (!institution || (await signingMethodOf(userId)) === "password") return { method: "password" };
+  return { method: "institution", name: institution.name, fresh: (await freshSignInUntil()) !== null, returnTo };
+}
+
+/** Until when (ms since epoch) this request's session may sign by institutional sign-in; null when not. */
+export async function freshSignInUntil(): Promise<number | null> {
+  const authAt = await currentSessionAuthAt();
+  if (!authAt) return null;
+  const until = authAt + FRESH_SIGN_IN_SECONDS * 1000;
+  return until > Date.now() ? until : null;
+}
 
 /**
  * Re-asks the signer's password (security.md: approve, reject and revoke). Wrong passwords are
@@ -26,9 +66,21 @@ const WRONG_PASSWORD = "The password is not correct.";
  */
 export async function verifySignerPassword(
   actor: CurrentUser,
-  password: string,
+  password: string | undefined,
   _ctx: SigningContext = {},
 ): Promise<void> {
+  if ((await signingMethodOf(actor.id)) === "institution") {
+    // The session's own sign-in at the provider, within the last 5 minutes (prompt=login, max_age=0
+    // made the provider ask again): a left-open session cannot sign.
+    if (!(await freshSignInUntil())) {
+      throw invalidField(
+        "password",
+        "Confirm it is you: sign in again through your institution, then sign within 5 minutes.",
+      );
+    }
+    return;
+  }
+  if (!password) throw invalidField("password", "Enter your password to sign.");
   const limit = await peek("signing", actor.id);
   if (!limit.allowed) throw tooMany(limit, "Too many wrong passwords. Wait a little and try again.");
   const [row] = await db

@@ -5,7 +5,7 @@ import { z } from "zod";
 // optimistic-concurrency token the page was rendered with; a stale one answers 409.
 
 export const expectedVersion = z.number({ error: "Reload the page: the version is missing." }).int().min(1);
-export const signingPassword = z
-  .string({ error: "Enter your password to sign." })
-  .min(1, "Enter your password to sign.")
-  .max(1024);
+// Optional in the schema: a signer who signs in through the institution's provider confirms who they
+// are there instead (lib/signing/password.ts), and a password signer without one gets the same
+// "Enter your password to sign." on the `password` field from the check itself.
+export const signingPassword = z.string({ error: "Enter your password to sign." }).max(1024).optional();

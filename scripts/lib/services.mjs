@@ -222,6 +222,9 @@ export function localEnv() {
   if (!current.LOCAL_PG_PASSWORD) additions.LOCAL_PG_PASSWORD = crypto.randomBytes(18).toString("base64url");
   // The app's own database role (benchclear_app), separate from the owner that migrates.
   if (!current.LOCAL_PG_APP_PASSWORD) additions.LOCAL_PG_APP_PASSWORD = crypto.randomBytes(18).toString("base64url");
+  // The local identity provider's client secret (scripts/local-idp.mjs), shared with the app.
+  if (!current.LOCAL_IDP_CLIENT_SECRET)
+    additions.LOCAL_IDP_CLIENT_SECRET = crypto.randomBytes(24).toString("base64url");
   if (!process.env.DECISION_HMAC_KEY && !current.DECISION_HMAC_KEY) {
     additions.DECISION_HMAC_KEY = crypto.randomBytes(32).toString("base64url");
   }
@@ -698,3 +701,44 @@ export function ensureBuild(env, distDir = ".next") {
 }
 
 export const bin = (name) => path.join(root, "node_modules", ".bin", name);
+
+// ---------------------------------------------------------------------------------------------
+// The local identity provider (scripts/local-idp.mjs): institutional sign-in on this machine
+
+/**
+ * The app's OIDC_* settings for the local identity provider on 127.0.0.1:`port`: the demo's
+ * institution account, with the directory's groups mapped to roles on first sign-in.
+ */
+export function localIdpEnv(env, port) {
+  return {
+    OIDC_ISSUER: `http://127.0.0.1:${port}`,
+    OIDC_CLIENT_ID: "benchclear-local",
+    OIDC_CLIENT_SECRET: env.LOCAL_IDP_CLIENT_SECRET,
+    OIDC_DISPLAY_NAME: "your Aldermere account",
+    OIDC_CLAIM_GROUPS: "groups",
+    OIDC_GROUP_ROLES: "hv-safety-office=safety_officer,dept-safety-contacts=reviewer",
+  };
+}
+
+/**
+ * Starts the local identity provider for the app served at `appUrl` (or for every address in
+ * `redirectUris`: the test copies); resolves when it answers.
+ */
+export async function startLocalIdp(env, { port, appUrl, redirectUris, variable, quiet = false }) {
+  await requireFreePort(port, "the local identity provider", variable);
+  step(`Starting the local identity provider on 127.0.0.1:${port}`);
+  const child = startChild("local identity provider", process.execPath, ["scripts/local-idp.mjs"], {
+    env: {
+      ...env,
+      LOCAL_IDP_PORT: String(port),
+      LOCAL_IDP_CLIENT_ID: "benchclear-local",
+      LOCAL_IDP_CLIENT_SECRET: env.LOCAL_IDP_CLIENT_SECRET,
+      LOCAL_IDP_REDIRECT_URIS: (redirectUris ?? [`${appUrl.replace(/\/$/, "")}/api/auth/callback/institution`]).join(
+        " ",
+      ),
+    },
+    stdio: quiet ? ["ignore", "ignore", "inherit"] : "inherit",
+  });
+  await waitForHttp(`http://127.0.0.1:${port}/.well-known/openid-configuration`, { child, okOnly: true });
+  return child;
+}

@@ -3,6 +3,7 @@
 // without touching each other's rows. tests/auth/matrix.test.ts runs them.
 import { ACCOUNT_ROWS } from "./matrix-rows/accounts";
 import { APPLICATION_ROWS } from "./matrix-rows/applications";
+import { INSTITUTION_ROWS } from "./matrix-rows/institution";
 import { MAIL_ROWS } from "./matrix-rows/mail";
 import { OPERATIONS_ROWS } from "./matrix-rows/operations";
 import { PDF_VERIFY_ROWS } from "./matrix-rows/pdf-verify";
@@ -17,6 +18,7 @@ export type { MatrixRow, Principal, Expectation, MatrixContext } from "./matrix-
 export const MATRIX = [
   ...ACCOUNT_ROWS,
   ...APPLICATION_ROWS,
+  ...INSTITUTION_ROWS,
   ...MAIL_ROWS,
   ...OPERATIONS_ROWS,
   ...PDF_VERIFY_ROWS,

@@ -1,11 +1,12 @@
 // POST /api/session — sign in with e-mail and password (JSON); 401 for any wrong pair, 429 with
-// Retry-After when throttled. DELETE /api/session — sign out (every session of the user).
+// Retry-After when throttled, 403 when password sign-in is turned off (PASSWORD_SIGN_IN=false). DELETE /api/session — sign out (every session of the user).
 import { cookies } from "next/headers";
 import { AuthError } from "next-auth";
 import { signIn, signOut, ThrottledSignin } from "@/auth";
 import { KNOWN_DEVICE_COOKIE, KNOWN_DEVICE_MAX_AGE_SECONDS, knownDeviceCookieValue } from "@/lib/auth/known-device";
 import { env } from "@/lib/env";
 import { AppError } from "@/lib/errors";
+import { PASSWORDS_OFF_MESSAGE, signInMethods } from "@/lib/auth/sign-in-methods";
 import { route } from "@/lib/http/route";
 import { signOutUser } from "@/lib/users/actions";
 import { signInSchema } from "@/lib/auth/schemas";
@@ -15,6 +16,8 @@ const WRONG = "That e-mail and password do not match an active account.";
 // The password is checked, and each attempt counted, once: in the Credentials provider's authorize()
 // (auth.ts → lib/auth/credentials.ts). `from` was already reduced to a path on this site by the schema.
 export const POST = route({ access: "public", body: signInSchema }, async ({ request, body }) => {
+  // Turned off (PASSWORD_SIGN_IN=false): refused before any password is looked at or counted.
+  if (!signInMethods().password) throw new AppError("forbidden", PASSWORDS_OFF_MESSAGE);
   try {
     await signIn("credentials", { email: body.email, password: body.password, redirect: false });
   } catch (error) {

@@ -21,6 +21,7 @@ import { approvalRequirements, audienceFactsOf, describeChain, STEP_ROLE_LABELS,
 import type { ApplicationContent } from "@/lib/applications/schemas";
 import { SignatureList } from "@/app/_components/signature-list";
 import { ContentSummary } from "./_components/content-summary";
+import { signingFor } from "@/lib/signing/password";
 import { DecisionPanel } from "./_components/decision-panel";
 import { RevisionDiff } from "./_components/revision-diff";
 import { Timeline } from "./_components/timeline";
@@ -86,6 +87,7 @@ export default async function ApplicationPage({
           defaultValidTo={window.validTo}
           eventDays={eventDays}
           pinOptions={pinOptions(content)}
+          signing={await signingFor(user.id, `/applications/${application.id}`)}
         />
       </Card>
     );

@@ -24,6 +24,7 @@ import { AUDIENCE_LABELS, EVENT_KIND_LABELS, type ApplicationContent } from "@/l
 import { SignatureList } from "@/app/_components/signature-list";
 import { ApparatusChangedBanner } from "@/app/_components/rereview/apparatus-changed-banner";
 import { RenewButton, RevokeForm } from "./_components/permit-actions";
+import { signingFor } from "@/lib/signing/password";
 
 export const metadata: Metadata = { title: "Permit" };
 
@@ -235,7 +236,11 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
           )}
           {mayRevoke && (
             <Card title="Revoke" description="The holder and the people named on the permit are told by e-mail.">
-              <RevokeForm permitId={permit.id} version={permit.version} />
+              <RevokeForm
+                permitId={permit.id}
+                version={permit.version}
+                signing={await signingFor(user.id, `/permits/${permit.id}`)}
+              />
             </Card>
           )}
         </div>

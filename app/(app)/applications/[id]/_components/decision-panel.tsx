@@ -3,6 +3,7 @@
 import { useRouter } from "next/navigation";
 import { useEffect, useId, useRef, useState } from "react";
 import { Alert } from "@/app/_components/alert";
+import { SignerCheck, type SigningProps } from "@/app/_components/auth/signer-check";
 import { Button } from "@/app/_components/button";
 import { Field, FieldShell, controlClasses } from "@/app/_components/field";
 import { ApiError, apiFetch } from "@/lib/client/api";
@@ -28,6 +29,8 @@ export type DecisionPanelProps = {
   /** The days the application asks for; a window beyond them needs a reason. */
   eventDays: { firstDay: string; lastDay: string } | null;
   pinOptions: { value: string; label: string }[];
+  /** How this signer confirms a signature: password, or a fresh institutional sign-in. */
+  signing: SigningProps;
 };
 
 const KIND_TEXT: Record<Kind, { label: string; hint: string; button: string }> = {
@@ -118,7 +121,10 @@ export function DecisionPanel(props: DecisionPanelProps) {
     if (!kind) local.kind = "Choose a decision.";
     if (commentRequired && !comment.trim())
       local.comment = kind === "return" ? "Write what needs to change." : "Write the reason for the rejection.";
-    if (needsPassword && !password) local.password = "Enter your password to sign.";
+    if (needsPassword && props.signing.method === "password" && !password)
+      local.password = "Enter your password to sign.";
+    if (needsPassword && props.signing.method === "institution" && !props.signing.fresh)
+      local.password = "Confirm it is you through your institution's sign-in first.";
     if (kind === "approve" && confirmed.length < props.requirements.length)
       local.confirmedRequirements = "Confirm every requirement of this tier.";
     if (widened && !validityReason.trim()) local.validityReason = "Give the reason for a window beyond the event days.";
@@ -135,11 +141,11 @@ export function DecisionPanel(props: DecisionPanelProps) {
         : kind === "return"
           ? { ...base, kind, comment, pinnedTo: pinnedTo || undefined }
           : kind === "reject"
-            ? { ...base, kind, comment, password }
+            ? { ...base, kind, comment, password: password || undefined }
             : {
                 ...base,
                 kind,
-                password,
+                password: password || undefined,
                 comment: comment.trim() || undefined,
                 confirmedRequirements: confirmed,
                 extraConditions: extra
@@ -341,14 +347,10 @@ export function DecisionPanel(props: DecisionPanelProps) {
       )}
 
       {needsPassword && (
-        <Field
-          label="Your password"
-          name="password"
-          type="password"
-          autoComplete="current-password"
-          required
-          value={password}
-          onChange={(e) => setPassword(e.target.value)}
+        <SignerCheck
+          signing={props.signing}
+          password={password}
+          onPassword={setPassword}
           error={errors.password}
           hint="Signing needs your password again."
         />

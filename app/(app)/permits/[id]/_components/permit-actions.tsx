@@ -3,8 +3,9 @@
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { Alert } from "@/app/_components/alert";
+import { SignerCheck, type SigningProps } from "@/app/_components/auth/signer-check";
 import { Button } from "@/app/_components/button";
-import { Field, FieldShell, controlClasses } from "@/app/_components/field";
+import { FieldShell, controlClasses } from "@/app/_components/field";
 import { ApiError, apiFetch } from "@/lib/client/api";
 import { issuesByField } from "@/lib/client/form-errors";
 
@@ -35,7 +36,15 @@ export function RenewButton({ permitId }: { permitId: string }) {
 }
 
 /** A safety officer revokes the permit: a reason and their password, recorded as a signed decision. */
-export function RevokeForm({ permitId, version }: { permitId: string; version: number }) {
+export function RevokeForm({
+  permitId,
+  version,
+  signing,
+}: {
+  permitId: string;
+  version: number;
+  signing: SigningProps;
+}) {
   const router = useRouter();
   const [reason, setReason] = useState("");
   const [password, setPassword] = useState("");
@@ -47,13 +56,17 @@ export function RevokeForm({ permitId, version }: { permitId: string; version: n
     event.preventDefault();
     const local: typeof errors = {};
     if (!reason.trim()) local.reason = "Give the reason for revoking.";
-    if (!password) local.password = "Enter your password to sign.";
+    if (signing.method === "password" && !password) local.password = "Enter your password to sign.";
+    if (signing.method === "institution" && !signing.fresh)
+      local.password = "Confirm it is you through your institution's sign-in first.";
     setErrors(local);
     setStatus(null);
     if (Object.keys(local).length) return;
     setBusy(true);
     try {
-      await apiFetch(`/api/permits/${permitId}/revoke`, { body: { expectedVersion: version, reason, password } });
+      await apiFetch(`/api/permits/${permitId}/revoke`, {
+        body: { expectedVersion: version, reason, password: password || undefined },
+      });
       setStatus({ tone: "success", text: "The permit is revoked. The holder is told by e-mail." });
       setPassword("");
       router.refresh();
@@ -80,14 +93,10 @@ export function RevokeForm({ permitId, version }: { permitId: string; version: n
           />
         )}
       </FieldShell>
-      <Field
-        label="Your password"
-        name="password"
-        type="password"
-        autoComplete="current-password"
-        required
-        value={password}
-        onChange={(e) => setPassword(e.target.value)}
+      <SignerCheck
+        signing={signing}
+        password={password}
+        onPassword={setPassword}
         error={errors.password}
         hint="Revoking is signed: it needs your password again."
       />
