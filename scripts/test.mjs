@@ -4,6 +4,7 @@
 // `N passed, N failed`.
 // Extra arguments go to vitest, e.g. `npm test -- tests/hazard`.
 import fs from "node:fs";
+import net from "node:net";
 import path from "node:path";
 import {
   bin,
@@ -39,7 +40,20 @@ const TEST_PORT = Number(process.env.TEST_PORT ?? 3210);
 const TEST_MAIL_PORT = Number(process.env.TEST_SMTP_PORT ?? 2526);
 // The local identity provider institutional sign-in goes through, one for every copy (past their
 // web and cluster ports: TEST_PORT + 5 × up to 4 copies).
-const TEST_OIDC_PORT = Number(process.env.TEST_OIDC_PORT ?? TEST_PORT + 20);
+// The local identity provider: TEST_OIDC_PORT, or a port the system says is free now (a fixed offset
+// from TEST_PORT would land on another checkout's ports on a shared machine).
+const TEST_OIDC_PORT = process.env.TEST_OIDC_PORT ? Number(process.env.TEST_OIDC_PORT) : await freeLoopbackPort();
+
+function freeLoopbackPort() {
+  return new Promise((resolve, reject) => {
+    const server = net.createServer();
+    server.once("error", reject);
+    server.listen(0, "127.0.0.1", () => {
+      const { port } = server.address();
+      server.close(() => resolve(port));
+    });
+  });
+}
 const vitestArgs = process.argv.slice(2);
 const quick = process.env.BENCHCLEAR_TEST_QUICK === "1";
 // Several checkouts' or helpers' test runs can share one machine with their own database and build.
