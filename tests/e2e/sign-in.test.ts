@@ -21,13 +21,13 @@ describe("signing in, in a real browser", () => {
     await page.goto("/sign-in");
     expect(await seriousA11yViolations(page)).toEqual([]);
 
-    await page.getByRole("button", { name: "Sign in" }).click();
+    await page.getByRole("button", { name: "Sign in", exact: true }).click();
     await expect.poll(() => page.getByText("Enter your e-mail address.").isVisible()).toBe(true);
     expect(await page.getByLabel("E-mail").getAttribute("aria-invalid")).toBe("true");
 
     await page.getByLabel("E-mail").fill(user.email);
     await page.getByLabel("Password").fill("not the password");
-    await page.getByRole("button", { name: "Sign in" }).click();
+    await page.getByRole("button", { name: "Sign in", exact: true }).click();
     // Next's route announcer is an alert too: pick the form's own.
     await page.getByRole("alert").filter({ hasText: "do not match" }).waitFor();
 
