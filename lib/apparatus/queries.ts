@@ -209,6 +209,6 @@ export async function apparatusForExport(user: CurrentUser) {
       apparatusRevisions,
       and(eq(apparatusRevisions.apparatusId, apparatus.id), eq(apparatusRevisions.revision, apparatus.currentRevision)),
     )
-    .where(readableBy(user))
+    .where(apparatusReadScope(user))
     .orderBy(asc(departments.name), sql`lower(${apparatus.name})`, asc(apparatus.id));
 }
