@@ -85,6 +85,8 @@ const LIB_DOMAINS = {
     "training",
     "users",
   ],
+  // The header's search: each kind through its own domain's read rule.
+  search: ["apparatus", "applications", "auth", "errors", "permits", "users"],
   verify: [
     "auth",
     "errors",

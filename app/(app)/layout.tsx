@@ -26,7 +26,7 @@ function visibleNav(user: CurrentUser): NavItem[] {
 export default async function SignedInLayout({ children }: { children: ReactNode }) {
   const user = await requirePageUser();
   return (
-    <AppShell navItems={visibleNav(user)} user={{ name: user.name, roles: user.roles }}>
+    <AppShell navItems={visibleNav(user)} user={{ name: user.name, roles: user.roles }} search={can(user, "search")}>
       {children}
     </AppShell>
   );

@@ -3,6 +3,7 @@ import type { ReactNode } from "react";
 import { AboutFigures } from "./about-figures";
 import { Wordmark } from "./logo";
 import { Nav } from "./nav";
+import { SearchForm } from "./search-form";
 import type { NavItem } from "./nav-items";
 import { UserMenu, type ShellUser } from "./user-menu";
 
@@ -10,11 +11,13 @@ type AppShellProps = {
   /** Navigation items this user may see (filter NAV_ITEMS by permission before passing). */
   navItems: readonly NavItem[];
   user: ShellUser | null;
+  /** Whether to show the search box (the user holds the "search" permission). */
+  search?: boolean;
   children: ReactNode;
 };
 
 /** The signed-in frame: skip link, header with mark, navigation and user menu; main; the note about the figures in the footer. */
-export function AppShell({ navItems, user, children }: AppShellProps) {
+export function AppShell({ navItems, user, search = false, children }: AppShellProps) {
   return (
     <div className="flex min-h-dvh flex-col">
       <a
@@ -30,9 +33,24 @@ export function AppShell({ navItems, user, children }: AppShellProps) {
             <Wordmark />
           </Link>
           <div className="ml-auto flex h-full items-center md:ml-0">
-            <Nav items={navItems}>{user && <UserMenu user={user} layout="stack" />}</Nav>
+            <Nav items={navItems}>
+              {search && <SearchForm variant="header" id="menu-search" className="mb-3" />}
+              {user && <UserMenu user={user} layout="stack" />}
+            </Nav>
           </div>
-          <UserMenu user={user} className="ml-auto hidden md:flex" />
+          {search && (
+            <>
+              {/* The row is full of navigation until wide screens: a link to the search page until then. */}
+              <Link
+                href="/search"
+                className="ml-auto hidden rounded-md px-2 py-1 text-sm font-medium text-stone-700 hover:text-stone-900 md:block xl:hidden"
+              >
+                Search
+              </Link>
+              <SearchForm variant="header" className="ml-auto hidden xl:flex" />
+            </>
+          )}
+          <UserMenu user={user} className={search ? "hidden md:flex" : "ml-auto hidden md:flex"} />
         </div>
       </header>
 

@@ -42,6 +42,9 @@ export const apparatus = pgTable(
   (t) => [
     index("apparatus_department_idx").on(t.departmentId),
     index("apparatus_name_idx").on(sql`lower(${t.name})`),
+    // Search by name and room (lib/search; migration 0013_search_trgm).
+    index("apparatus_name_trgm_idx").using("gin", t.name.op("gin_trgm_ops")),
+    index("apparatus_room_trgm_idx").using("gin", t.room.op("gin_trgm_ops")),
     check("apparatus_tier_range", sql`${t.tier} BETWEEN 0 AND 4`),
   ],
 );

@@ -94,6 +94,8 @@ export const applications = pgTable(
       .on(t.apparatusId)
       .where(sql`${t.apparatusId} IS NOT NULL`),
     check("application_tier_range", sql`${t.tier} IS NULL OR ${t.tier} BETWEEN 0 AND 4`),
+    // Search by title (lib/search; migration 0013_search_trgm).
+    index("application_title_trgm_idx").using("gin", t.title.op("gin_trgm_ops")),
   ],
 );
 
@@ -117,7 +119,11 @@ export const applicationRevisions = pgTable(
       .references(() => users.id, { onDelete: "restrict" }),
     submittedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [unique("application_revision_number_key").on(t.applicationId, t.revision)],
+  (t) => [
+    unique("application_revision_number_key").on(t.applicationId, t.revision),
+    // Search by the event's room (lib/search; migration 0013_search_trgm).
+    index("application_revision_room_trgm_idx").using("gin", sql`((${t.content} -> 'event') ->> 'room') gin_trgm_ops`),
+  ],
 );
 
 export const attachments = pgTable(

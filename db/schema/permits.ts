@@ -74,6 +74,8 @@ export const permits = pgTable(
     // The list's count with a tier filter, read from the index alone.
     index("permit_tier_state_idx").on(t.tier, t.state, t.validTo),
     check("permit_window", sql`${t.validFrom} <= ${t.validTo}`),
+    // Search by a piece of the number (lib/search; migration 0013_search_trgm).
+    index("permit_number_trgm_idx").using("gin", t.number.op("gin_trgm_ops")),
   ],
 );
 

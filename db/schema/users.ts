@@ -45,6 +45,8 @@ export const users = pgTable(
   (t) => [
     uniqueIndex("app_user_email_key").on(sql`lower(${t.email})`),
     index("app_user_department_idx").on(t.departmentId),
+    // Search by name (lib/search; migration 0013_search_trgm).
+    index("app_user_name_trgm_idx").using("gin", t.name.op("gin_trgm_ops")),
     check("app_user_roles_not_empty", sql`cardinality(${t.roles}) > 0`),
     check("app_user_oidc_pair", sql`(${t.oidcIssuer} IS NULL) = (${t.oidcSubject} IS NULL)`),
     uniqueIndex("app_user_oidc_identity_key")

@@ -10,8 +10,8 @@ import { canReadApparatus, canWriteApparatus } from "./access";
 // Reads of the apparatus registry. Every read is limited to the records the user may see
 // (lib/apparatus/access.ts) in the query itself, so a guessed id answers 404 like a missing one.
 
-/** The SQL form of canReadApparatus, for lists. Requires the user first (never an undefined id). */
-function readableBy(user: CurrentUser): SQL | undefined {
+/** The SQL form of canReadApparatus, for lists and search. Requires the user first (never an undefined id). */
+export function apparatusReadScope(user: CurrentUser): SQL | undefined {
   if (can(user, "application.read.any")) return undefined;
   const mine = eq(apparatus.ownerId, user.id);
   return user.departmentId ? or(mine, eq(apparatus.departmentId, user.departmentId)) : mine;
@@ -32,7 +32,7 @@ const SORT_COLUMNS = {
 
 export async function listApparatus(user: CurrentUser, query: ApparatusListQuery) {
   assertCan(user, "apparatus.read");
-  const conditions: (SQL | undefined)[] = [isNull(apparatus.archivedAt), readableBy(user)];
+  const conditions: (SQL | undefined)[] = [isNull(apparatus.archivedAt), apparatusReadScope(user)];
   if (query.owner === "mine") conditions.push(eq(apparatus.ownerId, user.id));
   if (query.tier !== undefined) conditions.push(eq(apparatus.tier, query.tier));
   if (query.q) {
@@ -176,7 +176,7 @@ export async function listApparatusChoices(user: CurrentUser, limit = 200) {
       currentRevision: apparatus.currentRevision,
     })
     .from(apparatus)
-    .where(and(isNull(apparatus.archivedAt), readableBy(user)))
+    .where(and(isNull(apparatus.archivedAt), apparatusReadScope(user)))
     .orderBy(desc(apparatus.updatedAt), asc(apparatus.id))
     .limit(limit);
 }
@@ -209,6 +209,6 @@ export async function apparatusForExport(user: CurrentUser) {
       apparatusRevisions,
       and(eq(apparatusRevisions.apparatusId, apparatus.id), eq(apparatusRevisions.revision, apparatus.currentRevision)),
     )
-    .where(readableBy(user))
+    .where(apparatusReadScope(user))
     .orderBy(asc(departments.name), sql`lower(${apparatus.name})`, asc(apparatus.id));
 }

@@ -1,4 +1,5 @@
-import type { ApplicationState, Role } from "@/db/schema";
+import { and, eq, isNotNull, or, sql, type SQL } from "drizzle-orm";
+import { applications, type ApplicationState, type Role } from "@/db/schema";
 import type { CurrentUser } from "@/lib/auth/guards";
 import { rolesHave } from "@/lib/auth/permissions";
 
@@ -29,6 +30,14 @@ export function isEditable(state: ApplicationState): boolean {
 
 export type ApplicationReader = { id: string; roles: readonly Role[]; departmentId: string | null };
 
+/** What a user's permissions let them read beyond their own and named applications. */
+function readGrants(user: ApplicationReader): { any: boolean; reviewDepartmentId: string | null } {
+  return {
+    any: rolesHave(user.roles, "application.read.any"),
+    reviewDepartmentId: rolesHave(user.roles, "application.review") ? user.departmentId : null,
+  };
+}
+
 export function canReadApplication(
   user: ApplicationReader,
   row: Pick<ApplicationAccessRow, "applicantId" | "departmentId" | "submittedAt"> & { namedUserIds: readonly string[] },
@@ -37,10 +46,22 @@ export function canReadApplication(
   // Never submitted (a draft, or a draft withdrawn): the applicant's working copy only.
   if (row.submittedAt === null) return false;
   if (row.namedUserIds.includes(user.id)) return true;
-  if (rolesHave(user.roles, "application.read.any")) return true;
-  return (
-    rolesHave(user.roles, "application.review") && user.departmentId !== null && row.departmentId === user.departmentId
-  );
+  const grants = readGrants(user);
+  if (grants.any) return true;
+  return grants.reviewDepartmentId !== null && row.departmentId === grants.reviewDepartmentId;
+}
+
+/**
+ * canReadApplication as a WHERE condition, for lists and search (the same grants, so the two cannot
+ * drift; tests/search checks them against each other). Callers still pass each row through
+ * canReadApplication. Never undefined: the user is required first.
+ */
+export function applicationReadScope(user: ApplicationReader): SQL {
+  const grants = readGrants(user);
+  const others: SQL[] = [sql`${user.id}::uuid = ANY(${applications.namedUserIds})`];
+  if (grants.any) others.push(sql`true`);
+  if (grants.reviewDepartmentId !== null) others.push(eq(applications.departmentId, grants.reviewDepartmentId));
+  return or(eq(applications.applicantId, user.id), and(isNotNull(applications.submittedAt), or(...others)))!;
 }
 
 export function isApplicant(user: CurrentUser, row: Pick<ApplicationAccessRow, "applicantId">): boolean {

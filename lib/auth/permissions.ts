@@ -30,6 +30,8 @@ export const PERMISSIONS = {
   "training.courses": ["admin"],
   "training.record": ["safety_officer", "admin"],
   "training.reminded": ["safety_officer"],
+  // The header's search box (lib/search); each kind of result keeps its own read rule on top.
+  search: ["instructor", "reviewer", "safety_officer", "admin"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

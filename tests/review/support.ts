@@ -106,6 +106,8 @@ export async function createSubmittedApplication(options: {
   operators?: { id: string | null; name: string }[];
   title?: string;
   setup?: SetupInput;
+  /** The event's room (and the apparatus's); "B12" by default. */
+  room?: string;
   firstDay?: string;
   lastDay?: string;
   audience?: "none" | "students" | "public";
@@ -120,6 +122,7 @@ export async function createSubmittedApplication(options: {
     responsible: options.applicant,
     operators: options.operators,
     setup: options.setup,
+    room: options.room,
     firstDay: options.firstDay,
     lastDay: options.lastDay,
     audience: options.audience,
