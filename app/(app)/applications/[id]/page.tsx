@@ -22,6 +22,8 @@ import type { ApplicationContent } from "@/lib/applications/schemas";
 import { SignatureList } from "@/app/_components/signature-list";
 import { ContentSummary } from "./_components/content-summary";
 import { DecisionPanel } from "./_components/decision-panel";
+import { OperatorTraining } from "./_components/operator-training";
+import { trainingCheck } from "@/lib/review/training";
 import { RevisionDiff } from "./_components/revision-diff";
 import { Timeline } from "./_components/timeline";
 
@@ -64,6 +66,16 @@ export default async function ApplicationPage({
     institutionTimeZone(),
   ]);
   const revisionNumber = new Map(record.revisions.map((r) => [r.id, r.revision]));
+  // Named operators' training through the permit's last day: the issued permit's, else the proposed one.
+  const training =
+    current && chain
+      ? await trainingCheck(
+          application,
+          current,
+          permit?.validTo ??
+            defaultValidity(eventDaysOf(current.content), chain.validityDays, todayIn(timeZone)).validTo,
+        )
+      : null;
 
   let panel: React.ReactNode = null;
   if (options?.ok && chain) {
@@ -86,6 +98,7 @@ export default async function ApplicationPage({
           defaultValidTo={window.validTo}
           eventDays={eventDays}
           pinOptions={pinOptions(content)}
+          trainingHold={options.final && training && training.open.length > 0 ? training.open.length : 0}
         />
       </Card>
     );
@@ -166,6 +179,15 @@ export default async function ApplicationPage({
       <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_24rem]">
         <div className="flex min-w-0 flex-col gap-6">
           {panel}
+          {training && (
+            <OperatorTraining
+              check={training}
+              timeZone={timeZone}
+              exception={
+                options?.ok && options.final ? { applicationId: application.id, version: application.version } : null
+              }
+            />
+          )}
           {diff && previous && current && (
             <RevisionDiff entries={diff} from={previous.revision} to={current.revision} />
           )}

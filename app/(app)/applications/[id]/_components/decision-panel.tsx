@@ -28,6 +28,8 @@ export type DecisionPanelProps = {
   /** The days the application asks for; a window beyond them needs a reason. */
   eventDays: { firstDay: string; lastDay: string } | null;
   pinOptions: { value: string; label: string }[];
+  /** Lapsed or missing operator courses no exception covers: the approval waits for them (issue 17). */
+  trainingHold?: number;
 };
 
 const KIND_TEXT: Record<Kind, { label: string; hint: string; button: string }> = {
@@ -215,6 +217,14 @@ export function DecisionPanel(props: DecisionPanelProps) {
           </p>
         )}
       </fieldset>
+
+      {kind === "approve" && (props.trainingHold ?? 0) > 0 && (
+        <Alert tone="warn" title="The approval waits for operator training">
+          {props.trainingHold === 1 ? "One required course is" : `${props.trainingHold} required courses are`} lapsed or
+          missing through the permit&apos;s last day (see “Named operators&apos; training”). Record the training, or
+          record a training exception, then approve.
+        </Alert>
+      )}
 
       {kind === "approve" && props.requirements.length > 0 && (
         <fieldset>
