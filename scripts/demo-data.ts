@@ -10,6 +10,7 @@ import { isLoopbackHost } from "@/lib/env";
 import { loadLocalEnv } from "@/scripts/lib/load-env";
 import { closeDb, getDb } from "@/db";
 import { departments, institutionSettings, users, type Role } from "@/db/schema";
+import { eq } from "drizzle-orm";
 
 export { DEMO_PASSWORD };
 export const INSTITUTION_NAME = "Aldermere Institute of Technology";
@@ -93,6 +94,67 @@ export async function seed(): Promise<void> {
     `  demo data: ${DEMO_DEPARTMENTS.length} departments, ${missing.length} user(s) added, story ${told ? "added" : "already there"}`,
   );
   await demoApparatusChange();
+  await demoTraining();
+}
+
+/**
+ * Training records (issue 17, item 1): two course types required institution-wide — "High-voltage
+ * awareness", 36 months, from tier 2, and "Capacitor-bank operator", 24 months, from tier 3 — and the
+ * instructor's record: awareness taken 14 months ago (current), the capacitor-bank course 24 months
+ * less 10 days ago, so it lapses in 10 days (a reminder is due; active tier 3–4 permits running past
+ * that day are flagged). Runs after the story, whose approvals predate the requirements. Idempotent:
+ * nothing is added once the course types exist.
+ */
+async function demoTraining(): Promise<void> {
+  const db = getDb();
+  const { courseTypes } = await import("@/db/schema");
+  const { currentUserColumns } = await import("@/lib/auth/current-user");
+  const { createCourseType, recordTraining } = await import("@/lib/training/actions");
+  const existing = await db.select({ id: courseTypes.id }).from(courseTypes).limit(1);
+  if (existing.length > 0) return;
+  const actor = async (email: string) => {
+    const [row] = await db.select(currentUserColumns).from(users).where(eq(users.email, email));
+    return row;
+  };
+  const [admin, officer, instructor] = await Promise.all([
+    actor("admin@benchclear.test"),
+    actor("officer@benchclear.test"),
+    actor("instructor@benchclear.test"),
+  ]);
+  if (!admin || !officer || !instructor) return;
+  const awareness = await createCourseType(admin, {
+    name: "High-voltage awareness",
+    covers: "Stored energy and charge, approach distances, grounding hooks and how to discharge a set-up.",
+    validityMonths: 36,
+    minTier: 2,
+    departmentId: null,
+  });
+  const bank = await createCourseType(admin, {
+    name: "Capacitor-bank operator",
+    covers: "Charging, bleeding and shorting a capacitor bank; triggered gaps; the interlocked enclosure.",
+    validityMonths: 24,
+    minTier: 3,
+    departmentId: null,
+  });
+  const monthsAgo = (months: number, plusDays = 0) => {
+    const now = new Date();
+    return new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() - months, now.getUTCDate() + plusDays))
+      .toISOString()
+      .slice(0, 10);
+  };
+  await recordTraining(officer, {
+    userId: instructor.id,
+    courseTypeId: awareness.id,
+    completedOn: monthsAgo(14),
+    trainer: "Aldermere safety office",
+  });
+  await recordTraining(officer, {
+    userId: instructor.id,
+    courseTypeId: bank.id,
+    completedOn: monthsAgo(24, 10),
+    trainer: "Aldermere pulsed-power laboratory",
+  });
+  console.log("  demo data: course types and training records added (one course lapses in 10 days)");
 }
 
 /**

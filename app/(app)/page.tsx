@@ -13,6 +13,7 @@ import { PageHeader } from "@/app/_components/page-header";
 import type { Tier } from "@/app/_components/tier";
 import { TierBadge } from "@/app/_components/tier-badge";
 import { ApparatusChangesSection } from "@/app/_components/rereview/apparatus-changes-section";
+import { TrainingLapsesSection } from "@/app/_components/training/training-lapses-section";
 import { myDashboardApplications } from "@/lib/applications/queries";
 import { can, requirePageUser } from "@/lib/auth/guards";
 import { expiringPermits } from "@/lib/permits/queries";
@@ -74,6 +75,7 @@ export default async function DashboardPage() {
             </Card>
           )}
           {applies && <ApparatusChangesSection user={user} />}
+          <TrainingLapsesSection user={user} />
           {mine && <DraftsSection drafts={mine.drafts} />}
           {mine && <OpenApplicationsSection applications={mine.open} />}
           {overview && (

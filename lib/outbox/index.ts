@@ -92,6 +92,18 @@ export type MailMessage =
           changes: string[];
         }[];
       };
+    }
+  | {
+      // A course of a person's training lapses soon (lib/training/reminders.ts).
+      kind: "training_reminder";
+      data: {
+        personName: string;
+        course: string;
+        /** The day the course lapses (it counts through the day before). */
+        lapsesOn: string;
+        daysLeft: number;
+        recipient: "person" | "officer";
+      };
     };
 
 export type MailKind = MailMessage["kind"];
@@ -126,6 +138,10 @@ function subjectFor(message: MailMessage): string {
       const under = rest.length ? `${rest.length + 1} active permits` : `permit ${first?.permitNumber ?? ""}`;
       return `Apparatus changed under ${under}: ${message.data.apparatusName}`;
     }
+    case "training_reminder":
+      return message.data.recipient === "person"
+        ? `Your ${message.data.course} training lapses on ${message.data.lapsesOn}`
+        : `${message.data.personName}: ${message.data.course} lapses on ${message.data.lapsesOn}`;
   }
 }
 

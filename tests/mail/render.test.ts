@@ -100,6 +100,10 @@ const MESSAGES: MailMessage[] = [
       ],
     },
   },
+  {
+    kind: "training_reminder",
+    data: { personName: "Imogen Tallis", course: title, lapsesOn: "2026-07-29", daysLeft: 7, recipient: "person" },
+  },
 ];
 
 const LINK: Record<MailMessage["kind"], string> = {
@@ -112,6 +116,7 @@ const LINK: Record<MailMessage["kind"], string> = {
   permit_revoked: `/permits/${permitId}`,
   permit_reminder: `/permits/${permitId}`,
   apparatus_changed: `/permits/${permitId}`,
+  training_reminder: "/account",
 };
 
 describe("e-mail bodies", () => {

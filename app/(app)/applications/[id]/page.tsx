@@ -23,6 +23,8 @@ import { SignatureList } from "@/app/_components/signature-list";
 import { ContentSummary } from "./_components/content-summary";
 import { signingFor } from "@/lib/signing/password";
 import { DecisionPanel } from "./_components/decision-panel";
+import { OperatorTraining } from "./_components/operator-training";
+import { trainingCheck } from "@/lib/review/training";
 import { RevisionDiff } from "./_components/revision-diff";
 import { Timeline } from "./_components/timeline";
 
@@ -65,6 +67,16 @@ export default async function ApplicationPage({
     institutionTimeZone(),
   ]);
   const revisionNumber = new Map(record.revisions.map((r) => [r.id, r.revision]));
+  // Named operators' training through the permit's last day: the issued permit's, else the proposed one.
+  const training =
+    current && chain
+      ? await trainingCheck(
+          application,
+          current,
+          permit?.validTo ??
+            defaultValidity(eventDaysOf(current.content), chain.validityDays, todayIn(timeZone)).validTo,
+        )
+      : null;
 
   let panel: React.ReactNode = null;
   if (options?.ok && chain) {
@@ -88,6 +100,7 @@ export default async function ApplicationPage({
           eventDays={eventDays}
           pinOptions={pinOptions(content)}
           signing={await signingFor(user.id, `/applications/${application.id}`)}
+          trainingHold={options.final && training && training.open.length > 0 ? training.open.length : 0}
         />
       </Card>
     );
@@ -168,6 +181,15 @@ export default async function ApplicationPage({
       <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_24rem]">
         <div className="flex min-w-0 flex-col gap-6">
           {panel}
+          {training && (
+            <OperatorTraining
+              check={training}
+              timeZone={timeZone}
+              exception={
+                options?.ok && options.final ? { applicationId: application.id, version: application.version } : null
+              }
+            />
+          )}
           {diff && previous && current && (
             <RevisionDiff entries={diff} from={previous.revision} to={current.revision} />
           )}

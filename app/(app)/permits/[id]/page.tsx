@@ -23,6 +23,7 @@ import { printAudience, printDays } from "@/lib/pdf/content";
 import { AUDIENCE_LABELS, EVENT_KIND_LABELS, type ApplicationContent } from "@/lib/applications/schemas";
 import { SignatureList } from "@/app/_components/signature-list";
 import { ApparatusChangedBanner } from "@/app/_components/rereview/apparatus-changed-banner";
+import { TrainingLapseFlag } from "@/app/_components/training/training-lapse-flag";
 import { RenewButton, RevokeForm } from "./_components/permit-actions";
 import { signingFor } from "@/lib/signing/password";
 
@@ -92,6 +93,7 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
         </Alert>
       )}
       <ApparatusChangedBanner user={user} permitId={permit.id} />
+      <TrainingLapseFlag user={user} permitId={permit.id} />
       {renewalOpen && (
         <Alert tone="info" title="Renewal under way" className="mb-6">
           <Link href={`/applications/${found.renewal!.id}`} className="underline">

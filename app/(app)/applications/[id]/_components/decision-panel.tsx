@@ -31,6 +31,8 @@ export type DecisionPanelProps = {
   pinOptions: { value: string; label: string }[];
   /** How this signer confirms a signature: password, or a fresh institutional sign-in. */
   signing: SigningProps;
+  /** Lapsed or missing operator courses no exception covers: the approval waits for them (issue 17). */
+  trainingHold?: number;
 };
 
 const KIND_TEXT: Record<Kind, { label: string; hint: string; button: string }> = {
@@ -221,6 +223,14 @@ export function DecisionPanel(props: DecisionPanelProps) {
           </p>
         )}
       </fieldset>
+
+      {kind === "approve" && (props.trainingHold ?? 0) > 0 && (
+        <Alert tone="warn" title="The approval waits for operator training">
+          {props.trainingHold === 1 ? "One required course is" : `${props.trainingHold} required courses are`} lapsed or
+          missing through the permit&apos;s last day (see “Named operators&apos; training”). Record the training, or
+          record a training exception, then approve.
+        </Alert>
+      )}
 
       {kind === "approve" && props.requirements.length > 0 && (
         <fieldset>
