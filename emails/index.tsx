@@ -11,6 +11,7 @@ import type { EmailBuilder, EmailContext } from "./context";
 import { invitationEmail } from "./invitation";
 import { permitReminderEmail } from "./permit-reminder";
 import { permitRevokedEmail } from "./permit-revoked";
+import { preUseCheckFailedEmail } from "./pre-use-check-failed";
 
 // Every e-mail kind → its body. The outbox worker calls renderEmail() when it sends a row, so a
 // body change reaches mail that is still queued.
@@ -25,6 +26,7 @@ const BUILDERS: { [K in MailMessage["kind"]]: EmailBuilder<K> } = {
   permit_revoked: permitRevokedEmail,
   permit_reminder: permitReminderEmail,
   apparatus_changed: apparatusChangedEmail,
+  pre_use_check_failed: preUseCheckFailedEmail,
 };
 
 export type RenderedEmail = { content: EmailContent; html: string; text: string };

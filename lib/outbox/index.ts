@@ -92,6 +92,22 @@ export type MailMessage =
           changes: string[];
         }[];
       };
+    }
+  | {
+      // A pre-use check with an item answered "no" (lib/checks), to the holder and the safety officers.
+      kind: "pre_use_check_failed";
+      data: {
+        permitId: string;
+        permitNumber: string;
+        title: string;
+        checkId: string;
+        recordedByName: string;
+        /** ISO 8601, UTC. */
+        checkedAt: string;
+        failed: { text: string; note: string }[];
+        note: string;
+        recipient?: "holder" | "officer";
+      };
     };
 
 export type MailKind = MailMessage["kind"];
@@ -126,6 +142,8 @@ function subjectFor(message: MailMessage): string {
       const under = rest.length ? `${rest.length + 1} active permits` : `permit ${first?.permitNumber ?? ""}`;
       return `Apparatus changed under ${under}: ${message.data.apparatusName}`;
     }
+    case "pre_use_check_failed":
+      return `Pre-use check failed: permit ${message.data.permitNumber}`;
   }
 }
 

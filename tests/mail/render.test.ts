@@ -100,6 +100,20 @@ const MESSAGES: MailMessage[] = [
       ],
     },
   },
+  {
+    kind: "pre_use_check_failed",
+    data: {
+      permitId,
+      permitNumber: "HV-2026-0007",
+      title,
+      checkId: id,
+      recordedByName: "Imogen Tallis",
+      checkedAt: "2026-05-12T09:30:00Z",
+      failed: [{ text: "Grounding hook inspected", note: "Clamp <b>cracked</b>" }],
+      note: "",
+      recipient: "officer",
+    },
+  },
 ];
 
 const LINK: Record<MailMessage["kind"], string> = {
@@ -112,6 +126,7 @@ const LINK: Record<MailMessage["kind"], string> = {
   permit_revoked: `/permits/${permitId}`,
   permit_reminder: `/permits/${permitId}`,
   apparatus_changed: `/permits/${permitId}`,
+  pre_use_check_failed: `/permits/${permitId}`,
 };
 
 describe("e-mail bodies", () => {
