@@ -68,6 +68,11 @@ function roleLabel(role: string): string {
   return isRole(role) ? ROLE_LABELS[role] : role;
 }
 
+/** The signed-in pre-use check page of a permit, behind the bench card's second QR code. */
+export function checkUrlOf(permitId: string): string {
+  return `${env().APP_URL.replace(/\/+$/, "")}/permits/${permitId}/check`;
+}
+
 export async function loadPrintData(permitId: string, now: Date = new Date()): Promise<PrintData> {
   const [row] = await joinPermitBase(
     db
@@ -141,7 +146,7 @@ export async function loadPrintData(permitId: string, now: Date = new Date()): P
       conditions: row.conditions,
       verificationCode: row.verificationCode,
       verificationUrl: verificationUrl(env().APP_URL, row.verificationCode),
-      checkUrl: `${env().APP_URL.replace(/\/+$/, "")}/permits/${permitId}/check`,
+      checkUrl: checkUrlOf(permitId),
     },
     holderName: row.holderName,
     event: {

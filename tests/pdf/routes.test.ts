@@ -203,7 +203,7 @@ describe("GET /permits/[id]/bench-card", () => {
       expect(text).toContain("Touch the grounding hook to Crusher bank");
       expect(text).toContain("Campus security (24 h)");
       // Two codes: the public status page and the signed-in pre-use check (issue 17).
-      expect(decodeQrs(res.bytes).sort()).toEqual([
+      expect(decodeQrs(res.bytes, 2, 0.45).sort()).toEqual([
         `${baseUrl()}/permits/${fixture.permit.id}/check`,
         `${baseUrl()}/verify/${fixture.permit.verificationCode}`,
       ]);

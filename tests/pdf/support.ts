@@ -297,20 +297,22 @@ export function decodeQr(pdf: Buffer): string | null {
  * right part every 30 px from the right edge (the codes' white quiet zones and the gap between them
  * are wider than that) until `expected` different codes are read.
  */
-export function decodeQrs(pdf: Buffer, expected = 2): string[] {
+export function decodeQrs(pdf: Buffer, expected = 2, topShare = 1): string[] {
   const file = tempFile(pdf, "pdf");
   const prefix = file.replace(/\.pdf$/, "");
   try {
     execFileSync("/usr/bin/pdftoppm", ["-png", "-r", "100", "-f", "1", "-l", "1", "-singlefile", file, prefix]);
     const png = PNG.sync.read(fs.readFileSync(`${prefix}.png`));
+    // Only the top `topShare` of the page is read when the caller knows the codes sit there.
+    const height = Math.round(png.height * topShare);
     const crop = (x0: number, x1: number) => {
       const width = x1 - x0;
-      const out = new Uint8ClampedArray(width * png.height * 4);
-      for (let y = 0; y < png.height; y++) {
+      const out = new Uint8ClampedArray(width * height * 4);
+      for (let y = 0; y < height; y++) {
         const from = (y * png.width + x0) * 4;
         out.set(png.data.subarray(from, from + width * 4), y * width * 4);
       }
-      return jsQR(out, width, png.height, { inversionAttempts: "dontInvert" })?.data ?? null;
+      return jsQR(out, width, height, { inversionAttempts: "dontInvert" })?.data ?? null;
     };
     const found = new Set<string>();
     for (let split = png.width - 30; split > 30 && found.size < expected; split -= 30) {
