@@ -35,7 +35,7 @@ describe("pre-use check on a phone", () => {
     await page.waitForURL(/\/sign-in\?from=/);
     await page.getByLabel("E-mail").fill(holder.email);
     await page.getByLabel("Password").fill(TEST_PASSWORD);
-    await page.getByRole("button", { name: "Sign in" }).click();
+    await page.getByRole("button", { name: "Sign in", exact: true }).click();
     await page.waitForURL((url) => url.pathname === `/permits/${f.permit.id}/check`);
 
     const cards = page.locator("form li");
