@@ -114,6 +114,8 @@ const LIB_DOMAINS = {
     "settings",
   ],
   calendar: ["audit", "auth", "env", "errors", "outbox", "permits", "settings"],
+  // Pre-use checks at the bench: a permit's checklist, the check and its mail, photos in storage.
+  checks: ["applications", "audit", "auth", "errors", "hazard", "outbox", "permits", "storage", "users"],
   pdf: [
     "applications",
     "audit",

@@ -12,6 +12,7 @@ import { invitationEmail } from "./invitation";
 import { permitReminderEmail } from "./permit-reminder";
 import { permitRevokedEmail } from "./permit-revoked";
 import { trainingReminderEmail } from "./training-reminder";
+import { preUseCheckFailedEmail } from "./pre-use-check-failed";
 
 // Every e-mail kind → its body. The outbox worker calls renderEmail() when it sends a row, so a
 // body change reaches mail that is still queued.
@@ -27,6 +28,7 @@ const BUILDERS: { [K in MailMessage["kind"]]: EmailBuilder<K> } = {
   permit_reminder: permitReminderEmail,
   apparatus_changed: apparatusChangedEmail,
   training_reminder: trainingReminderEmail,
+  pre_use_check_failed: preUseCheckFailedEmail,
 };
 
 export type RenderedEmail = { content: EmailContent; html: string; text: string };

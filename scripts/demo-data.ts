@@ -90,6 +90,7 @@ export async function seed(): Promise<void> {
   // The story goes through server modules; they load only after lib/jobs/standalone is registered.
   const { seedStory } = await import("./demo-story");
   const told = await seedStory(DEMO_PASSWORD);
+  await demoPreUseChecks();
   console.log(
     `  demo data: ${DEMO_DEPARTMENTS.length} departments, ${missing.length} user(s) added, story ${told ? "added" : "already there"}`,
   );
@@ -209,6 +210,62 @@ async function demoApparatusChange(): Promise<void> {
   });
   await writeAudit(db, { actor: null, action: MARK, entityType: "demo", entityId: "apparatus-change" });
   console.log(`  demo data: apparatus changed under ${saved.permitsFlagged.length} active permit(s)`);
+}
+
+/**
+ * Pre-use checks recorded at the bench (issue 17): on the tier 4 permit that ends this week, one
+ * check nine days ago with everything in order and one eight days ago with a "no" (the holder and the
+ * safety officer are e-mailed), so the officer's dashboard lists it as not checked lately; on the
+ * tier 1 teaching-lab permit, one check today. Recorded through the real action with fixed
+ * idempotency keys, so running this again records nothing twice.
+ */
+async function demoPreUseChecks(): Promise<void> {
+  const { eq } = await import("drizzle-orm");
+  const { applications, permits } = await import("@/db/schema");
+  const { currentUserColumns } = await import("@/lib/auth/current-user");
+  const { recordCheck } = await import("@/lib/checks/actions");
+  const { checkTarget } = await import("@/lib/checks/queries");
+  const db = getDb();
+  const [holder] = await db.select(currentUserColumns).from(users).where(eq(users.email, "instructor@benchclear.test"));
+  if (!holder) return;
+  const permitOf = async (title: string) => {
+    const [row] = await db
+      .select({ id: permits.id })
+      .from(permits)
+      .innerJoin(applications, eq(applications.id, permits.applicationId))
+      .where(eq(applications.title, title))
+      .limit(1);
+    return row?.id ?? null;
+  };
+  const DAY_MS = 86_400_000;
+  const record = async (
+    permitId: string | null,
+    key: string,
+    daysAgo: number,
+    answers: Record<string, { answer: "no" | "na"; note: string }> = {},
+  ) => {
+    if (!permitId) return;
+    const when = new Date(Date.now() - daysAgo * DAY_MS);
+    const target = await checkTarget(holder, permitId, when);
+    if (!target?.inUse) return;
+    const items = target.checklist.map((item) => ({
+      id: item.id,
+      answer: answers[item.id]?.answer ?? ("yes" as const),
+      note: answers[item.id]?.note ?? "",
+      photoId: null,
+    }));
+    await recordCheck(holder, permitId, { idempotencyKey: key, items, note: "" }, when);
+  };
+  const bank = await permitOf("Pulsed bank research runs");
+  await record(bank, "3b0c7c52-5d0e-4c61-9a4e-0d1f00000001", 9);
+  await record(bank, "3b0c7c52-5d0e-4c61-9a4e-0d1f00000002", 8, {
+    "control:interlock-or-remote": {
+      answer: "no",
+      note: "The enclosure door switch sticks closed; runs held until it is replaced.",
+    },
+    "control:eye-hearing-protection": { answer: "na", note: "Remote firing only today; nobody inside the cell." },
+  });
+  await record(await permitOf("Discharge tubes in the teaching lab"), "3b0c7c52-5d0e-4c61-9a4e-0d1f00000003", 0);
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {

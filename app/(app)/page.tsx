@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { ButtonLink } from "@/app/_components/button";
+import { ChecksDueSection } from "@/app/_components/dashboard/checks-due-section";
 import { Card } from "@/app/_components/card";
 import {
   DraftsSection,
@@ -112,6 +113,7 @@ export default async function DashboardPage() {
         </div>
         <div className="flex min-w-0 flex-col gap-6">
           {counts && <ReviewQueueSection counts={counts} />}
+          <ChecksDueSection user={user} />
           <ExpiringPermitsSection permits={expiring.map((p) => ({ ...p, tier: p.tier as Tier }))} />
         </div>
       </div>

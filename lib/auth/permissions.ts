@@ -19,6 +19,10 @@ export const PERMISSIONS = {
   "permit.reject": ["safety_officer"],
   "permit.revoke": ["safety_officer"],
   "permit.read.any": ["safety_officer"],
+  // Pre-use checks at the bench (lib/checks): the holder and the people named on the permit record
+  // them; safety officers may record one on any permit. Admins do not see permits, so they do not.
+  "permit.check": ["instructor", "reviewer", "safety_officer"],
+  "permit.check.any": ["safety_officer"],
   "audit.export": ["safety_officer"],
   "admin.users": ["admin"],
   "admin.rules": ["admin"],

@@ -104,6 +104,22 @@ export type MailMessage =
         daysLeft: number;
         recipient: "person" | "officer";
       };
+    }
+  | {
+      // A pre-use check with an item answered "no" (lib/checks), to the holder and the safety officers.
+      kind: "pre_use_check_failed";
+      data: {
+        permitId: string;
+        permitNumber: string;
+        title: string;
+        checkId: string;
+        recordedByName: string;
+        /** ISO 8601, UTC. */
+        checkedAt: string;
+        failed: { text: string; note: string }[];
+        note: string;
+        recipient?: "holder" | "officer";
+      };
     };
 
 export type MailKind = MailMessage["kind"];
@@ -142,6 +158,8 @@ function subjectFor(message: MailMessage): string {
       return message.data.recipient === "person"
         ? `Your ${message.data.course} training lapses on ${message.data.lapsesOn}`
         : `${message.data.personName}: ${message.data.course} lapses on ${message.data.lapsesOn}`;
+    case "pre_use_check_failed":
+      return `Pre-use check failed: permit ${message.data.permitNumber}`;
   }
 }
 

@@ -32,11 +32,14 @@ export function BenchCardDocument({
   data,
   size,
   qr,
+  checkQr = null,
   scale = 1,
 }: {
   data: PrintData;
   size: PaperSize;
   qr: string;
+  /** The second code: the signed-in page for recording a pre-use check (null on older snapshots). */
+  checkQr?: string | null;
   scale?: number;
 }) {
   const { permit, assessment, setup } = data;
@@ -98,11 +101,24 @@ export function BenchCardDocument({
               {printAudience(data.event.audienceLabel, data.event.audienceSize)}
             </Text>
           </View>
-          <QrBlock
-            dataUrl={qr}
-            size={Math.round(150 * Math.max(scale, 0.8))}
-            caption="Scan to check this permit is still valid"
-          />
+          {/* Two codes side by side, each captioned, so nobody scans the wrong one: the public status
+              page, and the pre-use check (which asks the person to sign in). */}
+          <View style={{ flexDirection: "row" }}>
+            <QrBlock
+              dataUrl={qr}
+              size={Math.round((checkQr ? 118 : 150) * Math.max(scale, 0.8))}
+              caption="Scan to check this permit is still valid"
+            />
+            {checkQr && (
+              <View style={{ marginLeft: 12 }}>
+                <QrBlock
+                  dataUrl={checkQr}
+                  size={Math.round(118 * Math.max(scale, 0.8))}
+                  caption="Record a pre-use check (sign-in)"
+                />
+              </View>
+            )}
+          </View>
         </View>
 
         <EndedBanner
@@ -153,6 +169,11 @@ export function BenchCardDocument({
         <View style={{ marginTop: 12 }}>
           <AboutFiguresBox fontSize={9.5} />
           <Text style={[s.mono, { fontSize: 7.5, color: INK.muted, marginTop: 4 }]}>{permit.verificationUrl}</Text>
+          {permit.checkUrl && checkQr && (
+            <Text style={[s.mono, { fontSize: 7.5, color: INK.muted, marginTop: 1 }]}>
+              Pre-use check: {permit.checkUrl}
+            </Text>
+          )}
         </View>
 
         <Overprint state={permit.state} />

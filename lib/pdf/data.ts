@@ -18,7 +18,8 @@ import type { PrintData } from "./types";
 // under an older shape still prints rather than failing at the bench.
 
 /** Bump when the printed layout changes so stored files are rendered again. */
-export const LAYOUT_VERSION = 2;
+// 3: the bench card carries a second QR code, for recording a pre-use check.
+export const LAYOUT_VERSION = 3;
 
 const DEFAULT_INSTITUTION = "Benchclear";
 
@@ -65,6 +66,11 @@ const arr = (value: unknown): unknown[] => (Array.isArray(value) ? value : []);
 
 function roleLabel(role: string): string {
   return isRole(role) ? ROLE_LABELS[role] : role;
+}
+
+/** The signed-in pre-use check page of a permit, behind the bench card's second QR code. */
+export function checkUrlOf(permitId: string): string {
+  return `${env().APP_URL.replace(/\/+$/, "")}/permits/${permitId}/check`;
 }
 
 export async function loadPrintData(permitId: string, now: Date = new Date()): Promise<PrintData> {
@@ -140,6 +146,7 @@ export async function loadPrintData(permitId: string, now: Date = new Date()): P
       conditions: row.conditions,
       verificationCode: row.verificationCode,
       verificationUrl: verificationUrl(env().APP_URL, row.verificationCode),
+      checkUrl: checkUrlOf(permitId),
     },
     holderName: row.holderName,
     event: {

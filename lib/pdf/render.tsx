@@ -22,9 +22,10 @@ export async function renderDocument(data: PrintData, kind: DocumentKind, size: 
   if (kind === "assessment") return renderToBuffer(<AssessmentDocument data={data} size={size} />);
   const qr = await qrDataUrl(data.permit.verificationUrl);
   if (kind === "permit") return renderToBuffer(<PermitDocument data={data} size={size} qr={qr} />);
+  const checkQr = data.permit.checkUrl ? await qrDataUrl(data.permit.checkUrl) : null;
   let pdf: Buffer | undefined;
   for (const scale of BENCH_CARD_SCALES) {
-    pdf = await renderToBuffer(<BenchCardDocument data={data} size={size} qr={qr} scale={scale} />);
+    pdf = await renderToBuffer(<BenchCardDocument data={data} size={size} qr={qr} checkQr={checkQr} scale={scale} />);
     if (countPages(pdf) === 1) return pdf;
   }
   return pdf!;

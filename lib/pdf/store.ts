@@ -8,7 +8,7 @@ import { notFound } from "@/lib/errors";
 import { permitScope } from "@/lib/permits/queries";
 import { canonicalJson, sha256Hex } from "@/lib/signing/canonical";
 import { getStorage } from "@/lib/storage";
-import { loadPrintData, permitHead } from "./data";
+import { checkUrlOf, loadPrintData, permitHead } from "./data";
 import { renderDocument } from "./render";
 import type { DocumentKind, PaperSize, PrintData } from "./types";
 
@@ -16,7 +16,7 @@ import type { DocumentKind, PaperSize, PrintData } from "./types";
 // its effective state changes (revoked, or expired once its last day has passed): each rendering
 // starts from a print snapshot (data.ts) whose SHA-256 names a folder holding the snapshot and every
 // document rendered from it —
-//   permits/<sha256>/snapshot.json, permit-a4.pdf, permit-letter.pdf, bench-card-a4.pdf, …
+//   permits/<sha256>/snapshot.json, permit-a4.pdf, permit-letter.pdf, bench-card-a4-l3.pdf, …
 // The permit row records the A4 permit's key and the state it shows (pdfKey, pdfRenderedState), so a
 // download costs one indexed read and a storage read until the state changes. Other sizes and the
 // bench card are rendered from the same snapshot on first request, so every sheet prints the same facts.
@@ -28,7 +28,10 @@ function folderOf(key: string): string {
 }
 
 function documentKey(folder: string, kind: DocumentKind, size: PaperSize): string {
-  return `${folder}/${kind}-${size}.pdf`;
+  // The bench card gained its pre-use check code in layout 3. A folder rendered before keeps its
+  // snapshot; its card is drawn again under the new name, with the check's address filled in.
+  const edition = kind === "bench-card" ? "-l3" : "";
+  return `${folder}/${kind}-${size}${edition}.pdf`;
 }
 
 export type StoredPermitPdf = { key: string; state: PermitState; number: string; rendered: boolean };
@@ -81,7 +84,11 @@ export async function ensurePermitPdf(permitId: string, now: Date = new Date()):
 async function readSnapshot(folder: string, permitId: string): Promise<PrintData> {
   const storage = await getStorage();
   const stored = await storage.get(`${folder}/snapshot.json`);
-  if (stored) return JSON.parse(stored.toString("utf8")) as PrintData;
+  if (stored) {
+    const data = JSON.parse(stored.toString("utf8")) as PrintData;
+    data.permit.checkUrl ??= checkUrlOf(permitId);
+    return data;
+  }
   // A lost snapshot (storage restored from an older backup): the current facts are the best source.
   return loadPrintData(permitId);
 }

@@ -43,6 +43,11 @@ export type PrintData = {
     conditions: string[];
     verificationCode: string;
     verificationUrl: string;
+    /**
+     * The signed-in page for recording a pre-use check (/permits/<id>/check), behind the bench card's
+     * second QR code. Absent from snapshots taken before layout 3.
+     */
+    checkUrl?: string;
   };
   holderName: string;
   event: {

@@ -7,6 +7,7 @@ import { INSTITUTION_ROWS } from "./matrix-rows/institution";
 import { MAIL_ROWS } from "./matrix-rows/mail";
 import { OPERATIONS_ROWS } from "./matrix-rows/operations";
 import { PDF_VERIFY_ROWS } from "./matrix-rows/pdf-verify";
+import { PRE_USE_CHECK_ROWS } from "./matrix-rows/pre-use-checks";
 import { REVIEW_ROWS } from "./matrix-rows/review";
 import { REREVIEW_ROWS } from "./matrix-rows/rereview";
 import { RULES_SEARCH_ROWS } from "./matrix-rows/rules-search";
@@ -22,6 +23,7 @@ export const MATRIX = [
   ...MAIL_ROWS,
   ...OPERATIONS_ROWS,
   ...PDF_VERIFY_ROWS,
+  ...PRE_USE_CHECK_ROWS,
   ...REVIEW_ROWS,
   ...REREVIEW_ROWS,
   ...RULES_SEARCH_ROWS,

@@ -104,6 +104,20 @@ const MESSAGES: MailMessage[] = [
     kind: "training_reminder",
     data: { personName: "Imogen Tallis", course: title, lapsesOn: "2026-07-29", daysLeft: 7, recipient: "person" },
   },
+  {
+    kind: "pre_use_check_failed",
+    data: {
+      permitId,
+      permitNumber: "HV-2026-0007",
+      title,
+      checkId: id,
+      recordedByName: "Imogen Tallis",
+      checkedAt: "2026-05-12T09:30:00Z",
+      failed: [{ text: "Grounding hook inspected", note: "Clamp <b>cracked</b>" }],
+      note: "",
+      recipient: "officer",
+    },
+  },
 ];
 
 const LINK: Record<MailMessage["kind"], string> = {
@@ -117,6 +131,7 @@ const LINK: Record<MailMessage["kind"], string> = {
   permit_reminder: `/permits/${permitId}`,
   apparatus_changed: `/permits/${permitId}`,
   training_reminder: "/account",
+  pre_use_check_failed: `/permits/${permitId}`,
 };
 
 describe("e-mail bodies", () => {

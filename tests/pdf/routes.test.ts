@@ -6,7 +6,15 @@ import { auditEvents, permits } from "@/db/schema";
 import { getPermitPdf } from "@/lib/pdf";
 import { createDepartment, createUser, requireDatabase } from "../support/db";
 import { baseUrl, randomIp, signIn } from "../support/http";
-import { createPermitFixture, decodeQr, pdfInfo, pdfText, revokeFixture, type PermitFixture } from "./support";
+import {
+  createPermitFixture,
+  decodeQr,
+  decodeQrs,
+  pdfInfo,
+  pdfText,
+  revokeFixture,
+  type PermitFixture,
+} from "./support";
 
 requireDatabase();
 
@@ -194,7 +202,11 @@ describe("GET /permits/[id]/bench-card", () => {
       expect(text).toContain("ACTIVE");
       expect(text).toContain("Touch the grounding hook to Crusher bank");
       expect(text).toContain("Campus security (24 h)");
-      expect(decodeQr(res.bytes)).toBe(`${baseUrl()}/verify/${fixture.permit.verificationCode}`);
+      // Two codes: the public status page and the signed-in pre-use check (issue 17).
+      expect(decodeQrs(res.bytes, 2, 0.45).sort()).toEqual([
+        `${baseUrl()}/permits/${fixture.permit.id}/check`,
+        `${baseUrl()}/verify/${fixture.permit.verificationCode}`,
+      ]);
     }
     const other = await signIn((await createUser({ roles: ["instructor"] })).email);
     expect((await download(`/permits/${fixture.permit.id}/bench-card`, other)).status).toBe(404);

@@ -30,7 +30,12 @@ const require = createRequire(import.meta.url);
 const { PNG } = require("pngjs") as {
   PNG: { sync: { read(buffer: Buffer): { width: number; height: number; data: Buffer } } };
 };
-const jsQR = require("jsqr") as (data: Uint8ClampedArray, width: number, height: number) => { data: string } | null;
+const jsQR = require("jsqr") as (
+  data: Uint8ClampedArray,
+  width: number,
+  height: number,
+  options?: { inversionAttempts?: "dontInvert" | "attemptBoth" },
+) => { data: string } | null;
 
 export const INSTITUTION = "Aldermere Institute of Technology";
 export const CONTACTS: EmergencyContact[] = [
@@ -280,6 +285,40 @@ export function decodeQr(pdf: Buffer): string | null {
       jsQR(new Uint8ClampedArray(png.data.buffer, png.data.byteOffset, png.data.length), png.width, png.height)?.data ??
       null
     );
+  } finally {
+    fs.rmSync(file, { force: true });
+    fs.rmSync(`${prefix}.png`, { force: true });
+  }
+}
+
+/**
+ * Decodes the QR codes on the first page (the bench card has two, side by side). jsqr reads one
+ * symbol per image and none when two share it, so the page (at 100 dpi) is cut into a left and a
+ * right part every 30 px from the right edge (the codes' white quiet zones and the gap between them
+ * are wider than that) until `expected` different codes are read.
+ */
+export function decodeQrs(pdf: Buffer, expected = 2, topShare = 1): string[] {
+  const file = tempFile(pdf, "pdf");
+  const prefix = file.replace(/\.pdf$/, "");
+  try {
+    execFileSync("/usr/bin/pdftoppm", ["-png", "-r", "100", "-f", "1", "-l", "1", "-singlefile", file, prefix]);
+    const png = PNG.sync.read(fs.readFileSync(`${prefix}.png`));
+    // Only the top `topShare` of the page is read when the caller knows the codes sit there.
+    const height = Math.round(png.height * topShare);
+    const crop = (x0: number, x1: number) => {
+      const width = x1 - x0;
+      const out = new Uint8ClampedArray(width * height * 4);
+      for (let y = 0; y < height; y++) {
+        const from = (y * png.width + x0) * 4;
+        out.set(png.data.subarray(from, from + width * 4), y * width * 4);
+      }
+      return jsQR(out, width, height, { inversionAttempts: "dontInvert" })?.data ?? null;
+    };
+    const found = new Set<string>();
+    for (let split = png.width - 30; split > 30 && found.size < expected; split -= 30) {
+      for (const code of [crop(split, png.width), crop(0, split)]) if (code) found.add(code);
+    }
+    return [...found];
   } finally {
     fs.rmSync(file, { force: true });
     fs.rmSync(`${prefix}.png`, { force: true });

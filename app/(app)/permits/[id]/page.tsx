@@ -26,6 +26,7 @@ import { ApparatusChangedBanner } from "@/app/_components/rereview/apparatus-cha
 import { TrainingLapseFlag } from "@/app/_components/training/training-lapse-flag";
 import { RenewButton, RevokeForm } from "./_components/permit-actions";
 import { signingFor } from "@/lib/signing/password";
+import { PreUseCheckLog } from "./_components/pre-use-check-log";
 
 export const metadata: Metadata = { title: "Permit" };
 
@@ -207,6 +208,7 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
               </p>
             )}
           </Card>
+          <PreUseCheckLog user={user} permitId={permit.id} />
           <Card title="Print" description="Post the permit at the bench and fix the bench card beside the apparatus.">
             <ul className="flex flex-col gap-2 text-sm" aria-label="Printable files">
               {(
