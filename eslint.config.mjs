@@ -135,6 +135,21 @@ const LIB_DOMAINS = {
   // Delivering mail renders emails/ and attaches permit PDFs and calendar files.
   mail: ["audit", "calendar", "env", "errors", "outbox", "pdf", "permits", "settings", "users/invitation-token.ts"],
   jobs: ["audit", "env", "errors", "mail", "outbox", "permits", "rules", "settings", "training"],
+  // Incident and near-miss reports: links to permits and apparatus, photos by the attachment rules,
+  // revoking the linked permit through the permit's own revoke path.
+  incidents: [
+    "apparatus",
+    "applications",
+    "audit",
+    "auth",
+    "errors",
+    "outbox",
+    "permits",
+    "settings",
+    "signing",
+    "storage",
+    "users",
+  ],
 };
 // emails/ renders messages the outbox holds; it may use these lib domains and nothing else.
 const EMAILS_MAY_USE = ["about-figures", "hazard", "outbox", "tier-colours", "tier-glyph"];

@@ -8,6 +8,7 @@ import { applicationReturnedEmail } from "./application-returned";
 import { applicationSubmittedEmail } from "./application-submitted";
 import { EmailDocument, textBody, type EmailContent } from "./components";
 import type { EmailBuilder, EmailContext } from "./context";
+import { incidentUpdateEmail } from "./incident-update";
 import { invitationEmail } from "./invitation";
 import { permitReminderEmail } from "./permit-reminder";
 import { permitRevokedEmail } from "./permit-revoked";
@@ -25,6 +26,7 @@ const BUILDERS: { [K in MailMessage["kind"]]: EmailBuilder<K> } = {
   permit_revoked: permitRevokedEmail,
   permit_reminder: permitReminderEmail,
   apparatus_changed: apparatusChangedEmail,
+  incident_update: incidentUpdateEmail,
 };
 
 export type RenderedEmail = { content: EmailContent; html: string; text: string };

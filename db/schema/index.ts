@@ -11,3 +11,4 @@ export * from "./permits";
 export * from "./ratelimit";
 export * from "./apparatus-changes";
 export * from "./training";
+export * from "./incidents";

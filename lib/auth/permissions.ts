@@ -30,6 +30,12 @@ export const PERMISSIONS = {
   "training.courses": ["admin"],
   "training.record": ["safety_officer", "admin"],
   "training.reminded": ["safety_officer"],
+  // Incident and near-miss reports (lib/incidents): anyone signed in reports one; safety officers
+  // triage them and see every report, admins read them all. Who else reads one: see
+  // INCIDENT_READ_BY_LINKED_PERMIT_HOLDER below.
+  "incident.report": ["instructor", "reviewer", "safety_officer", "admin"],
+  "incident.triage": ["safety_officer"],
+  "incident.read.any": ["safety_officer", "admin"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;
@@ -38,3 +44,12 @@ export function rolesHave(roles: readonly Role[], permission: Permission): boole
   const allowed: readonly Role[] = PERMISSIONS[permission];
   return roles.some((role) => allowed.includes(role));
 }
+
+/**
+ * Incident reports, record level (decided for issue 17): besides the reporter and incident.read.any,
+ * the holder of the permit a report names reads it — they run the set-up and have to act on the
+ * findings — but never triages it, and sees it without the reporter's name (people report near misses
+ * at a colleague's bench more readily when the colleague does not learn who told). People named on
+ * that permit's application, reviewers and the apparatus's owner do not read it through the link.
+ */
+export const INCIDENT_READ_BY_LINKED_PERMIT_HOLDER = true;

@@ -92,7 +92,31 @@ export type MailMessage =
           changes: string[];
         }[];
       };
+    }
+  | {
+      // An incident or near-miss report moved a step (lib/incidents/actions.ts): to its reporter and
+      // the safety officers, once per step (dedupe key incident:<id>:<step>:v<version>).
+      kind: "incident_update";
+      data: {
+        incidentId: string;
+        ref: string;
+        summary: string;
+        incidentKind: "incident" | "near_miss";
+        step: IncidentStep;
+        state: "open" | "investigating" | "closed";
+        actorName: string;
+        occurredAt: string;
+        location: string;
+        injuries: boolean;
+        findings?: string;
+        actions?: string;
+        permitNumber?: string | null;
+        recipient: "reporter" | "officer";
+      };
     };
+
+/** What happened to a report: each is one e-mail to the reporter and the officers. */
+export type IncidentStep = "reported" | "investigating" | "closed" | "reopened" | "permit_revoked";
 
 export type MailKind = MailMessage["kind"];
 
@@ -126,8 +150,18 @@ function subjectFor(message: MailMessage): string {
       const under = rest.length ? `${rest.length + 1} active permits` : `permit ${first?.permitNumber ?? ""}`;
       return `Apparatus changed under ${under}: ${message.data.apparatusName}`;
     }
+    case "incident_update":
+      return `${message.data.ref} ${INCIDENT_STEP_SUBJECTS[message.data.step]}: ${message.data.summary}`;
   }
 }
+
+const INCIDENT_STEP_SUBJECTS: Record<IncidentStep, string> = {
+  reported: "reported",
+  investigating: "under investigation",
+  closed: "closed",
+  reopened: "reopened",
+  permit_revoked: "permit revoked",
+};
 
 /** Queues one message per recipient. Returns how many rows were queued (0 for a repeated dedupeKey). */
 export async function queueMail(

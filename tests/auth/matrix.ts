@@ -4,6 +4,7 @@
 import { ACCOUNT_ROWS } from "./matrix-rows/accounts";
 import { APPLICATION_ROWS } from "./matrix-rows/applications";
 import { INSTITUTION_ROWS } from "./matrix-rows/institution";
+import { INCIDENT_ROWS } from "./matrix-rows/incidents";
 import { MAIL_ROWS } from "./matrix-rows/mail";
 import { OPERATIONS_ROWS } from "./matrix-rows/operations";
 import { PDF_VERIFY_ROWS } from "./matrix-rows/pdf-verify";
@@ -19,6 +20,7 @@ export const MATRIX = [
   ...ACCOUNT_ROWS,
   ...APPLICATION_ROWS,
   ...INSTITUTION_ROWS,
+  ...INCIDENT_ROWS,
   ...MAIL_ROWS,
   ...OPERATIONS_ROWS,
   ...PDF_VERIFY_ROWS,

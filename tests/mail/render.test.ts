@@ -100,6 +100,25 @@ const MESSAGES: MailMessage[] = [
       ],
     },
   },
+  {
+    kind: "incident_update",
+    data: {
+      incidentId: id,
+      ref: "IR-12",
+      summary: title,
+      incidentKind: "near_miss",
+      step: "closed",
+      state: "closed",
+      actorName: "Dana Whitlock",
+      occurredAt: "2026-05-12T10:00:00Z",
+      location: "B12 lecture theatre",
+      injuries: false,
+      findings: "The grounding hook was left on the far bench.",
+      actions: "A second hook hangs beside the bank.",
+      permitNumber: "HV-2026-0007",
+      recipient: "reporter",
+    },
+  },
 ];
 
 const LINK: Record<MailMessage["kind"], string> = {
@@ -112,6 +131,7 @@ const LINK: Record<MailMessage["kind"], string> = {
   permit_revoked: `/permits/${permitId}`,
   permit_reminder: `/permits/${permitId}`,
   apparatus_changed: `/permits/${permitId}`,
+  incident_update: `/incidents/${id}`,
 };
 
 describe("e-mail bodies", () => {

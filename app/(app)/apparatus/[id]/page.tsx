@@ -19,6 +19,7 @@ import { assessSetup, BASE_UNIT, formatQuantity, upgradeSetup, type EnergySource
 import { currentTierRules } from "@/lib/hazard-rules";
 import { AppError } from "@/lib/errors";
 import { SOURCE_KIND_LABELS } from "@/lib/apparatus/schemas";
+import { ApparatusIncidents } from "./_components/apparatus-incidents";
 
 export const metadata: Metadata = { title: "Apparatus" };
 
@@ -140,6 +141,7 @@ export default async function ApparatusPage({ params }: PageProps) {
             )}
             {apparatus.notes && <p className="mt-3 text-sm whitespace-pre-line text-stone-700">{apparatus.notes}</p>}
           </Card>
+          <ApparatusIncidents user={user} apparatusId={apparatus.id} />
           <Card title="Revisions" flush>
             <DataTable
               caption="Revisions"

@@ -25,6 +25,7 @@ import { SignatureList } from "@/app/_components/signature-list";
 import { ApparatusChangedBanner } from "@/app/_components/rereview/apparatus-changed-banner";
 import { RenewButton, RevokeForm } from "./_components/permit-actions";
 import { signingFor } from "@/lib/signing/password";
+import { PermitIncidents } from "./_components/permit-incidents";
 
 export const metadata: Metadata = { title: "Permit" };
 
@@ -234,6 +235,7 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
               <RenewButton permitId={permit.id} />
             </Card>
           )}
+          <PermitIncidents user={user} permitId={permit.id} />
           {mayRevoke && (
             <Card title="Revoke" description="The holder and the people named on the permit are told by e-mail.">
               <RevokeForm
