@@ -9,6 +9,7 @@ import { applicationSubmittedEmail } from "./application-submitted";
 import { EmailDocument, textBody, type EmailContent } from "./components";
 import type { EmailBuilder, EmailContext } from "./context";
 import { incidentUpdateEmail } from "./incident-update";
+import { inspectionDueEmail } from "./inspection-due";
 import { invitationEmail } from "./invitation";
 import { permitReminderEmail } from "./permit-reminder";
 import { permitRevokedEmail } from "./permit-revoked";
@@ -27,6 +28,7 @@ const BUILDERS: { [K in MailMessage["kind"]]: EmailBuilder<K> } = {
   permit_reminder: permitReminderEmail,
   apparatus_changed: apparatusChangedEmail,
   incident_update: incidentUpdateEmail,
+  inspection_due: inspectionDueEmail,
 };
 
 export type RenderedEmail = { content: EmailContent; html: string; text: string };

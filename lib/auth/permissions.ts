@@ -36,6 +36,10 @@ export const PERMISSIONS = {
   "incident.report": ["instructor", "reviewer", "safety_officer", "admin"],
   "incident.triage": ["safety_officer"],
   "incident.read.any": ["safety_officer", "admin"],
+  // Apparatus upkeep (lib/upkeep): inspection records, the inspection interval and retiring are kept
+  // by those who may edit the apparatus (apparatus.write, its owner and department) and by safety
+  // officers for any apparatus.
+  "apparatus.upkeep.any": ["safety_officer"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

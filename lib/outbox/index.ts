@@ -113,7 +113,21 @@ export type MailMessage =
         permitNumber?: string | null;
         recipient: "reporter" | "officer";
       };
-    };
+    }
+  | InspectionDueMessage;
+
+/** The owner of an apparatus: its next inspection is due (lib/upkeep, from the daily job). */
+export type InspectionDueMessage = {
+  kind: "inspection_due";
+  data: {
+    apparatusId: string;
+    apparatusName: string;
+    room: string;
+    dueOn: string;
+    lastInspectedOn: string | null;
+    intervalDays: number;
+  };
+};
 
 /** What happened to a report: each is one e-mail to the reporter and the officers. */
 export type IncidentStep = "reported" | "investigating" | "closed" | "reopened" | "permit_revoked";
@@ -150,6 +164,8 @@ function subjectFor(message: MailMessage): string {
       const under = rest.length ? `${rest.length + 1} active permits` : `permit ${first?.permitNumber ?? ""}`;
       return `Apparatus changed under ${under}: ${message.data.apparatusName}`;
     }
+    case "inspection_due":
+      return `Inspection due: ${message.data.apparatusName}`;
     case "incident_update":
       return `${message.data.ref} ${INCIDENT_STEP_SUBJECTS[message.data.step]}: ${message.data.summary}`;
   }

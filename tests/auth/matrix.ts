@@ -9,6 +9,7 @@ import { MAIL_ROWS } from "./matrix-rows/mail";
 import { OPERATIONS_ROWS } from "./matrix-rows/operations";
 import { PDF_VERIFY_ROWS } from "./matrix-rows/pdf-verify";
 import { REVIEW_ROWS } from "./matrix-rows/review";
+import { UPKEEP_ROWS } from "./matrix-rows/upkeep";
 import { REREVIEW_ROWS } from "./matrix-rows/rereview";
 import { RULES_SEARCH_ROWS } from "./matrix-rows/rules-search";
 import { TRAINING_ROWS } from "./matrix-rows/training";
@@ -25,6 +26,7 @@ export const MATRIX = [
   ...OPERATIONS_ROWS,
   ...PDF_VERIFY_ROWS,
   ...REVIEW_ROWS,
+  ...UPKEEP_ROWS,
   ...REREVIEW_ROWS,
   ...RULES_SEARCH_ROWS,
   ...TRAINING_ROWS,

@@ -119,6 +119,17 @@ const MESSAGES: MailMessage[] = [
       recipient: "reporter",
     },
   },
+  {
+    kind: "inspection_due",
+    data: {
+      apparatusId: id,
+      apparatusName: title,
+      room: "B12 lecture theatre",
+      dueOn: "2026-02-09",
+      lastInspectedOn: "2026-01-10",
+      intervalDays: 30,
+    },
+  },
 ];
 
 const LINK: Record<MailMessage["kind"], string> = {
@@ -132,6 +143,7 @@ const LINK: Record<MailMessage["kind"], string> = {
   permit_reminder: `/permits/${permitId}`,
   apparatus_changed: `/permits/${permitId}`,
   incident_update: `/incidents/${id}`,
+  inspection_due: `/apparatus/${id}`,
 };
 
 describe("e-mail bodies", () => {
