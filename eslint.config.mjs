@@ -138,7 +138,24 @@ const LIB_DOMAINS = {
   ],
   // Delivering mail renders emails/ and attaches permit PDFs and calendar files.
   mail: ["audit", "calendar", "env", "errors", "outbox", "pdf", "permits", "settings", "users/invitation-token.ts"],
-  jobs: ["audit", "env", "errors", "mail", "outbox", "permits", "rules", "settings", "training"],
+  jobs: ["audit", "env", "errors", "mail", "outbox", "permits", "rules", "settings", "training", "upkeep"],
+  // Apparatus upkeep: inspection records with photos by the attachment rules, the interval's reminder.
+  upkeep: ["apparatus", "applications", "audit", "auth", "errors", "outbox", "permits", "settings", "storage"],
+  // Incident and near-miss reports: links to permits and apparatus, photos by the attachment rules,
+  // revoking the linked permit through the permit's own revoke path.
+  incidents: [
+    "apparatus",
+    "applications",
+    "audit",
+    "auth",
+    "errors",
+    "outbox",
+    "permits",
+    "settings",
+    "signing",
+    "storage",
+    "users",
+  ],
 };
 // emails/ renders messages the outbox holds; it may use these lib domains and nothing else.
 const EMAILS_MAY_USE = ["about-figures", "hazard", "outbox", "tier-colours", "tier-glyph"];

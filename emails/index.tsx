@@ -8,6 +8,8 @@ import { applicationReturnedEmail } from "./application-returned";
 import { applicationSubmittedEmail } from "./application-submitted";
 import { EmailDocument, textBody, type EmailContent } from "./components";
 import type { EmailBuilder, EmailContext } from "./context";
+import { incidentUpdateEmail } from "./incident-update";
+import { inspectionDueEmail } from "./inspection-due";
 import { invitationEmail } from "./invitation";
 import { permitReminderEmail } from "./permit-reminder";
 import { permitRevokedEmail } from "./permit-revoked";
@@ -29,6 +31,8 @@ const BUILDERS: { [K in MailMessage["kind"]]: EmailBuilder<K> } = {
   apparatus_changed: apparatusChangedEmail,
   training_reminder: trainingReminderEmail,
   pre_use_check_failed: preUseCheckFailedEmail,
+  incident_update: incidentUpdateEmail,
+  inspection_due: inspectionDueEmail,
 };
 
 export type RenderedEmail = { content: EmailContent; html: string; text: string };

@@ -33,6 +33,8 @@ try {
   console.log(`  expired now: ${report.expired.length}`);
   for (const q of report.queued)
     console.log(`  queued ${q.kind} reminder for ${q.number} (due ${q.dueDate}) → ${q.to.join(", ")}`);
+  for (const a of report.inspections)
+    console.log(`  queued inspection reminder for ${a.name} (due ${a.dueOn}) → ${a.to.join(", ")}`);
   if (report.queued.length === 0) console.log("  no new reminders (each is sent once per permit, kind and due date)");
   if (send) {
     // Sent with the real time: the clock moves the permit job, not the outbox's back-off.

@@ -96,6 +96,8 @@ export async function seed(): Promise<void> {
   );
   await demoApparatusChange();
   await demoTraining();
+  await demoIncidents();
+  await demoUpkeep();
 }
 
 /**
@@ -266,6 +268,173 @@ async function demoPreUseChecks(): Promise<void> {
     "control:eye-hearing-protection": { answer: "na", note: "Remote firing only today; nobody inside the cell." },
   });
   await record(await permitOf("Discharge tubes in the teaching lab"), "3b0c7c52-5d0e-4c61-9a4e-0d1f00000003", 0);
+}
+
+/**
+ * Incident reports (issue 17, item 3): a near miss at the jar bank under the instructor's active
+ * permit (reported by the reviewer, under investigation), and a small shock from the tabletop
+ * influence machine (reported by the instructor, closed with findings and actions). Once only.
+ */
+async function demoIncidents(): Promise<void> {
+  const MARK = "demo.incidents_seeded";
+  const { and, desc, eq } = await import("drizzle-orm");
+  const { apparatus, auditEvents, permits } = await import("@/db/schema");
+  const { currentUserColumns } = await import("@/lib/auth/current-user");
+  const { writeAudit } = await import("@/lib/audit");
+  const { reportIncident, triageIncident } = await import("@/lib/incidents/actions");
+  const { incidentReportSchema } = await import("@/lib/incidents/schemas");
+  const db = getDb();
+  const [done] = await db.select({ id: auditEvents.id }).from(auditEvents).where(eq(auditEvents.action, MARK));
+  if (done) return;
+  const person = async (email: string) =>
+    (await db.select(currentUserColumns).from(users).where(eq(users.email, email)))[0];
+  const [instructor, reviewer, officer] = await Promise.all([
+    person("instructor@benchclear.test"),
+    person("reviewer@benchclear.test"),
+    person("officer@benchclear.test"),
+  ]);
+  if (!instructor || !reviewer || !officer) return;
+  const [permit] = await db
+    .select({ id: permits.id })
+    .from(permits)
+    .where(and(eq(permits.holderId, instructor.id), eq(permits.state, "active")))
+    .orderBy(desc(permits.tier), desc(permits.validTo))
+    .limit(1);
+  const [machine] = await db
+    .select({ id: apparatus.id })
+    .from(apparatus)
+    .where(and(eq(apparatus.ownerId, instructor.id), eq(apparatus.name, "Tabletop influence machine")));
+  const hoursAgo = (h: number) => new Date(Date.now() - h * 3_600_000).toISOString();
+
+  const nearMiss = await reportIncident(
+    reviewer,
+    incidentReportSchema.parse({
+      kind: "near_miss",
+      summary: "Jar bank found charged an hour after the show",
+      description:
+        "Tidying the bench after the evening demonstration, I held the grounding hook to the bank out of habit and it drew a loud spark. Nobody had touched the jars. The bleeder should have brought them down within minutes.",
+      occurredAt: hoursAgo(30),
+      location: "B12 lecture theatre, demonstration bench",
+      injuries: false,
+      permitId: permit?.id ?? null,
+    }),
+  );
+  await triageIncident(officer, nearMiss.id, {
+    expectedVersion: nearMiss.version,
+    state: "investigating",
+    findings: "The bleeder's lead is loose at the bank's terminal; measuring it today.",
+    actions: "",
+  });
+
+  const shock = await reportIncident(
+    instructor,
+    incidentReportSchema.parse({
+      kind: "incident",
+      summary: "Small shock from the influence machine's jar",
+      description:
+        "While moving the tabletop influence machine after a class, my knuckle touched the outer foil of a jar. A sharp sting, no mark.",
+      occurredAt: hoursAgo(24 * 9),
+      location: "B12 preparation room",
+      injuries: true,
+      injuryNote: "A sting to the right knuckle; no burn, no first aid needed.",
+      apparatusId: machine?.id ?? null,
+    }),
+  );
+  const opened = await triageIncident(officer, shock.id, {
+    expectedVersion: shock.version,
+    state: "investigating",
+    findings: "",
+    actions: "",
+  });
+  await triageIncident(officer, shock.id, {
+    expectedVersion: opened.incident.version,
+    state: "closed",
+    findings:
+      "The jars keep a residual charge after the discharge rod is removed; the machine was moved before grounding.",
+    actions:
+      "Jars shorted with the grounding hook before the machine is moved; a note on the machine says so. The machine is retired.",
+  });
+  await writeAudit(db, { actor: null, action: MARK, entityType: "demo", entityId: "incidents" });
+  console.log("  demo data: two incident reports (one under a permit)");
+}
+
+/**
+ * Apparatus upkeep (issue 17, item 5): inspection records on the jar bank (every 90 days, all passed
+ * last month), the pulsed bank overdue (every 30 days, last passed 40 days ago, a failed hook check
+ * since), and the tabletop influence machine retired. Once only.
+ */
+async function demoUpkeep(): Promise<void> {
+  const MARK = "demo.upkeep_seeded";
+  const { and, eq } = await import("drizzle-orm");
+  const { apparatus, auditEvents } = await import("@/db/schema");
+  const { currentUserColumns } = await import("@/lib/auth/current-user");
+  const { writeAudit } = await import("@/lib/audit");
+  const { recordInspection, retireApparatus, setInspectionInterval } = await import("@/lib/upkeep/actions");
+  const db = getDb();
+  const [done] = await db.select({ id: auditEvents.id }).from(auditEvents).where(eq(auditEvents.action, MARK));
+  if (done) return;
+  const [owner] = await db.select(currentUserColumns).from(users).where(eq(users.email, "instructor@benchclear.test"));
+  if (!owner) return;
+  const byName = async (name: string) =>
+    (
+      await db
+        .select({ id: apparatus.id })
+        .from(apparatus)
+        .where(and(eq(apparatus.ownerId, owner.id), eq(apparatus.name, name)))
+    )[0]?.id;
+  const day = (daysAgo: number) => new Date(Date.now() - daysAgo * 86_400_000).toISOString().slice(0, 10);
+  const jars = await byName("Bank of jar capacitors");
+  const pulsed = await byName("Pulsed capacitor bank");
+  const machine = await byName("Tabletop influence machine");
+  if (jars) {
+    await setInspectionInterval(owner, jars, { inspectionInterval_days: 90 });
+    const by = owner.name;
+    await recordInspection(owner, jars, {
+      kind: "bleeder",
+      inspectedOn: day(28),
+      inspectedBy: by,
+      result: "pass",
+      note: "500 MΩ bleeder measured at 498 MΩ; the bank fell below 50 V in 40 s from 25 kV.",
+    });
+    await recordInspection(owner, jars, {
+      kind: "jars_insulation",
+      inspectedOn: day(28),
+      inspectedBy: by,
+      result: "pass",
+      note: "No crazing on the eight jars; stand insulation clean and dry.",
+    });
+    await recordInspection(owner, jars, {
+      kind: "grounding_hook",
+      inspectedOn: day(28),
+      inspectedBy: by,
+      result: "repaired",
+      note: "Braid frayed at the clamp; re-terminated and checked for continuity.",
+    });
+  }
+  if (pulsed) {
+    await setInspectionInterval(owner, pulsed, { inspectionInterval_days: 30 });
+    await recordInspection(owner, pulsed, {
+      kind: "maintenance",
+      inspectedOn: day(40),
+      inspectedBy: "Opal Fenwick",
+      result: "pass",
+      note: "Trigger gap electrodes cleaned; interlock tested.",
+    });
+    await recordInspection(owner, pulsed, {
+      kind: "grounding_hook",
+      inspectedOn: day(5),
+      inspectedBy: "Opal Fenwick",
+      result: "fail",
+      note: "Hook's earth lead missing; the bank is not to be charged until it is replaced.",
+    });
+  }
+  if (machine) {
+    await retireApparatus(owner, machine, {
+      reason: "Jars keep a residual charge and the base is cracked; replaced by the new outreach machine.",
+    });
+  }
+  await writeAudit(db, { actor: null, action: MARK, entityType: "demo", entityId: "upkeep" });
+  console.log("  demo data: inspection records on two apparatus, one apparatus retired");
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {

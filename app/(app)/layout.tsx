@@ -12,6 +12,7 @@ const NAV_PERMISSION: Partial<Record<NavItem["key"], Permission>> = {
   applications: "application.create",
   review: "application.review",
   permits: "apparatus.read",
+  incidents: "incident.report",
   admin: "admin.users",
   training: "training.record",
 };

@@ -3,7 +3,7 @@
 // server components only as references.
 
 export type NavItem = {
-  key: "dashboard" | "apparatus" | "applications" | "review" | "permits" | "admin" | "training";
+  key: "dashboard" | "apparatus" | "applications" | "review" | "permits" | "incidents" | "admin" | "training";
   href: string;
   label: string;
   /** Path prefix that also marks this item current; defaults to href. */
@@ -16,6 +16,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { key: "applications", href: "/applications", label: "Applications" },
   { key: "review", href: "/review", label: "Review" },
   { key: "permits", href: "/permits", label: "Permits" },
+  { key: "incidents", href: "/incidents", label: "Incidents" },
   { key: "training", href: "/training", label: "Training" },
   { key: "admin", href: "/admin/users", label: "Admin", match: "/admin" },
 ];

@@ -12,3 +12,4 @@ export * from "./ratelimit";
 export * from "./apparatus-changes";
 export * from "./training";
 export * from "./checks";
+export * from "./incidents";

@@ -102,6 +102,7 @@ export async function updateApparatus(
         departmentId: apparatus.departmentId,
         currentRevision: apparatus.currentRevision,
         archivedAt: apparatus.archivedAt,
+        retiredAt: apparatus.retiredAt,
       })
       .from(apparatus)
       .where(eq(apparatus.id, id))
@@ -110,6 +111,7 @@ export async function updateApparatus(
     if (!canWriteApparatus(user, row))
       throw forbidden("Only the owner and people of its department may edit this apparatus.");
     if (row.archivedAt) throw conflict("This apparatus is archived and can no longer be edited.");
+    if (row.retiredAt) throw conflict("This apparatus is retired and can no longer be edited.");
     if (row.currentRevision !== input.expectedRevision) {
       throw conflict(
         `Someone saved revision ${row.currentRevision} while you were editing revision ${input.expectedRevision}. Reload it and apply your changes again.`,

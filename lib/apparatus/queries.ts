@@ -54,6 +54,7 @@ export async function listApparatus(user: CurrentUser, query: ApparatusListQuery
         energy_J: apparatus.energy_J,
         currentRevision: apparatus.currentRevision,
         updatedAt: apparatus.updatedAt,
+        retiredAt: apparatus.retiredAt,
         ownerId: apparatus.ownerId,
         ownerName: users.name,
         departmentName: departments.name,
@@ -93,6 +94,8 @@ export async function getApparatus(user: CurrentUser, id: string) {
       tier: apparatus.tier,
       energy_J: apparatus.energy_J,
       archivedAt: apparatus.archivedAt,
+      retiredAt: apparatus.retiredAt,
+      retiredReason: apparatus.retiredReason,
       createdAt: apparatus.createdAt,
       updatedAt: apparatus.updatedAt,
     })
@@ -167,18 +170,21 @@ export async function findReadableRevision(user: CurrentUser, apparatusId: strin
 /** The registry records the application form offers to pick from (current revisions, newest first). */
 export async function listApparatusChoices(user: CurrentUser, limit = 200) {
   assertCan(user, "apparatus.read");
-  return db
-    .select({
-      id: apparatus.id,
-      name: apparatus.name,
-      room: apparatus.room,
-      tier: apparatus.tier,
-      currentRevision: apparatus.currentRevision,
-    })
-    .from(apparatus)
-    .where(and(isNull(apparatus.archivedAt), apparatusReadScope(user)))
-    .orderBy(desc(apparatus.updatedAt), asc(apparatus.id))
-    .limit(limit);
+  return (
+    db
+      .select({
+        id: apparatus.id,
+        name: apparatus.name,
+        room: apparatus.room,
+        tier: apparatus.tier,
+        currentRevision: apparatus.currentRevision,
+      })
+      .from(apparatus)
+      // A retired apparatus is kept for the record but no longer offered (lib/upkeep).
+      .where(and(isNull(apparatus.archivedAt), isNull(apparatus.retiredAt), apparatusReadScope(user)))
+      .orderBy(desc(apparatus.updatedAt), asc(apparatus.id))
+      .limit(limit)
+  );
 }
 
 /**

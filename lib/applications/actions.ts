@@ -82,6 +82,7 @@ async function draftFromApparatus(user: CurrentUser, apparatusId: string, draft:
     .select({
       ownerId: apparatus.ownerId,
       departmentId: apparatus.departmentId,
+      retiredAt: apparatus.retiredAt,
       revisionId: apparatusRevisions.id,
       name: apparatusRevisions.name,
       room: apparatusRevisions.room,
@@ -98,6 +99,11 @@ async function draftFromApparatus(user: CurrentUser, apparatusId: string, draft:
   if (!row || !canReadApparatus(user, row)) {
     throw new AppError("invalid", "apparatusId: that apparatus is not in your registry.", {
       issues: [{ path: "apparatusId", message: "That apparatus is not in your registry." }],
+    });
+  }
+  if (row.retiredAt) {
+    throw new AppError("invalid", "apparatusId: that apparatus is retired.", {
+      issues: [{ path: "apparatusId", message: "That apparatus is retired: it is kept for the record only." }],
     });
   }
   draft.apparatus = {
@@ -228,12 +234,17 @@ async function checkReferences(tx: Tx, user: CurrentUser, content: ApplicationCo
   const part = content.apparatus;
   if (part.apparatusId) {
     const [row] = await tx
-      .select({ ownerId: apparatus.ownerId, departmentId: apparatus.departmentId })
+      .select({ ownerId: apparatus.ownerId, departmentId: apparatus.departmentId, retiredAt: apparatus.retiredAt })
       .from(apparatus)
       .where(eq(apparatus.id, part.apparatusId))
       .limit(1);
     if (!row || !canReadApparatus(user, row)) {
       issues.push({ path: "apparatus.apparatusId", message: "That registry record is not available to you." });
+    } else if (row.retiredAt) {
+      issues.push({
+        path: "apparatus.apparatusId",
+        message: "That apparatus is retired: pick another one or describe the set-up without the registry.",
+      });
     } else if (part.apparatusRevisionId) {
       const [revision] = await tx
         .select({ revision: apparatusRevisions.revision, setup: apparatusRevisions.setup })

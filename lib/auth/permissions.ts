@@ -36,6 +36,16 @@ export const PERMISSIONS = {
   "training.reminded": ["safety_officer"],
   // The header's search box (lib/search); each kind of result keeps its own read rule on top.
   search: ["instructor", "reviewer", "safety_officer", "admin"],
+  // Incident and near-miss reports (lib/incidents): anyone signed in reports one; safety officers
+  // triage them and see every report, admins read them all. Who else reads one: see
+  // INCIDENT_READ_BY_LINKED_PERMIT_HOLDER below.
+  "incident.report": ["instructor", "reviewer", "safety_officer", "admin"],
+  "incident.triage": ["safety_officer"],
+  "incident.read.any": ["safety_officer", "admin"],
+  // Apparatus upkeep (lib/upkeep): inspection records, the inspection interval and retiring are kept
+  // by those who may edit the apparatus (apparatus.write, its owner and department) and by safety
+  // officers for any apparatus.
+  "apparatus.upkeep.any": ["safety_officer"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;
@@ -44,3 +54,12 @@ export function rolesHave(roles: readonly Role[], permission: Permission): boole
   const allowed: readonly Role[] = PERMISSIONS[permission];
   return roles.some((role) => allowed.includes(role));
 }
+
+/**
+ * Incident reports, record level (decided for issue 17): besides the reporter and incident.read.any,
+ * the holder of the permit a report names reads it — they run the set-up and have to act on the
+ * findings — but never triages it, and sees it without the reporter's name (people report near misses
+ * at a colleague's bench more readily when the colleague does not learn who told). People named on
+ * that permit's application, reviewers and the apparatus's owner do not read it through the link.
+ */
+export const INCIDENT_READ_BY_LINKED_PERMIT_HOLDER = true;

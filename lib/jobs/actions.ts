@@ -7,6 +7,7 @@ import { readInstitutionSettings } from "@/lib/settings/queries";
 import { queueMail } from "@/lib/outbox";
 import { addDays, todayIn } from "@/lib/permits/dates";
 import { currentReminderRules } from "@/lib/rules/queries";
+import { queueInspectionReminders, type InspectionReminderReport } from "@/lib/upkeep/actions";
 import { DEFAULT_SCHEDULE, CATCH_UP_DAYS, reminderDue, reminderKey, type ReminderPlan } from "./reminders";
 
 // The daily permit job (scheduled by lib/jobs/worker.ts at 06:00 in the institution's time zone,
@@ -28,6 +29,8 @@ export type ReminderRunReport = {
   schedule: number[];
   expired: string[];
   queued: { permitId: string; number: string; kind: string; dueDate: string; to: string[] }[];
+  /** Apparatus whose inspection fell due: one reminder each to the owner (lib/upkeep). */
+  inspections: InspectionReminderReport;
 };
 
 type Candidate = {
@@ -173,7 +176,7 @@ export async function runReminders(options: { now?: Date } = {}): Promise<Remind
   const today = todayIn(timeZone, now);
   const schedule = await reminderSchedule();
   const expired = await expirePermits(today, now);
-  const report: ReminderRunReport = { today, timeZone, schedule, expired, queued: [] };
+  const report: ReminderRunReport = { today, timeZone, schedule, expired, queued: [], inspections: [] };
   for (const permit of await candidates(today, schedule)) {
     const plan = reminderDue({
       today,
@@ -188,5 +191,6 @@ export async function runReminders(options: { now?: Date } = {}): Promise<Remind
     if (to.length > 0)
       report.queued.push({ permitId: permit.id, number: permit.number, kind: plan.kind, dueDate: plan.dueDate, to });
   }
+  report.inspections = await queueInspectionReminders(today, timeZone);
   return report;
 }

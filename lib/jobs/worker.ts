@@ -83,7 +83,7 @@ export async function startWorker(options: WorkerOptions = {}): Promise<RunningW
     log(
       `[worker] permits on ${report.today} (${report.timeZone}): ${report.expired.length} expired, ${report.queued.length} reminder(s) queued`,
     );
-    if (report.queued.length > 0) await boss.send(QUEUES.outbox, {});
+    if (report.queued.length + report.inspections.length > 0) await boss.send(QUEUES.outbox, {});
     return { today: report.today, expired: report.expired.length, queued: report.queued.length };
   });
 

@@ -120,7 +120,45 @@ export type MailMessage =
         note: string;
         recipient?: "holder" | "officer";
       };
-    };
+    }
+  | {
+      // An incident or near-miss report moved a step (lib/incidents/actions.ts): to its reporter and
+      // the safety officers, once per step (dedupe key incident:<id>:<step>:v<version>).
+      kind: "incident_update";
+      data: {
+        incidentId: string;
+        ref: string;
+        summary: string;
+        incidentKind: "incident" | "near_miss";
+        step: IncidentStep;
+        state: "open" | "investigating" | "closed";
+        actorName: string;
+        occurredAt: string;
+        location: string;
+        injuries: boolean;
+        findings?: string;
+        actions?: string;
+        permitNumber?: string | null;
+        recipient: "reporter" | "officer";
+      };
+    }
+  | InspectionDueMessage;
+
+/** The owner of an apparatus: its next inspection is due (lib/upkeep, from the daily job). */
+export type InspectionDueMessage = {
+  kind: "inspection_due";
+  data: {
+    apparatusId: string;
+    apparatusName: string;
+    room: string;
+    dueOn: string;
+    lastInspectedOn: string | null;
+    intervalDays: number;
+  };
+};
+
+/** What happened to a report: each is one e-mail to the reporter and the officers. */
+export type IncidentStep = "reported" | "investigating" | "closed" | "reopened" | "permit_revoked";
 
 export type MailKind = MailMessage["kind"];
 
@@ -160,8 +198,20 @@ function subjectFor(message: MailMessage): string {
         : `${message.data.personName}: ${message.data.course} lapses on ${message.data.lapsesOn}`;
     case "pre_use_check_failed":
       return `Pre-use check failed: permit ${message.data.permitNumber}`;
+    case "inspection_due":
+      return `Inspection due: ${message.data.apparatusName}`;
+    case "incident_update":
+      return `${message.data.ref} ${INCIDENT_STEP_SUBJECTS[message.data.step]}: ${message.data.summary}`;
   }
 }
+
+const INCIDENT_STEP_SUBJECTS: Record<IncidentStep, string> = {
+  reported: "reported",
+  investigating: "under investigation",
+  closed: "closed",
+  reopened: "reopened",
+  permit_revoked: "permit revoked",
+};
 
 /** Queues one message per recipient. Returns how many rows were queued (0 for a repeated dedupeKey). */
 export async function queueMail(

@@ -3,7 +3,7 @@ import { and, eq, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { applicationRevisions, applications, decisions, permits } from "@/db/schema";
 import { sealDecision } from "@/lib/records/seal";
-import { writeAudit } from "@/lib/audit";
+import { writeAudit, type Tx } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
 import { conflict, forbidden, notFound } from "@/lib/errors";
 import { queueMail } from "@/lib/outbox";
@@ -26,6 +26,24 @@ import { institutionToday } from "./queries";
  * safety officer who is neither its holder nor named on its application may revoke it.
  */
 export async function revokePermit(actor: CurrentUser, permitId: string, body: RevokeBody, ctx: SigningContext = {}) {
+  const prepared = await prepareRevocation(actor, permitId, body, ctx);
+  return db.transaction((tx) => applyRevocation(tx, actor, prepared, body));
+}
+
+export type PreparedRevocation = Awaited<ReturnType<typeof prepareRevocation>>;
+
+/**
+ * Every check of a revocation before anything is written: the permission, separation of duties, an
+ * active permit at the version the signer saw, the revision's hash, then the signer's password.
+ * Other domains that revoke as part of their own step (an incident report) call this, then
+ * applyRevocation inside their own transaction, so the rules stay these.
+ */
+export async function prepareRevocation(
+  actor: CurrentUser,
+  permitId: string,
+  body: RevokeBody,
+  ctx: SigningContext = {},
+) {
   assertCan(actor, "permit.revoke");
   const now = ctx.now ?? new Date();
   const [row] = await db
@@ -73,70 +91,78 @@ export async function revokePermit(actor: CurrentUser, permitId: string, body: R
   if (contentHash !== row.revision.contentHash)
     throw conflict("The permit's revision does not match its recorded hash.");
   await verifySignerPassword(actor, body.password, ctx);
+  return { row, contentHash, today, now };
+}
 
-  return db.transaction(async (tx) => {
-    const [updated] = await tx
-      .update(permits)
-      .set({
-        state: "revoked",
-        revokedAt: now,
-        revokedById: actor.id,
-        revokedReason: body.reason,
-        version: sql`${permits.version} + 1`,
-        updatedAt: now,
-      })
-      .where(
-        and(
-          eq(permits.id, row.permit.id),
-          eq(permits.state, "active"),
-          eq(permits.version, body.expectedVersion),
-          sql`${permits.validTo} >= ${today}::date`,
-        ),
-      )
-      .returning();
-    if (!updated) throw conflict("This permit changed while you were working on it. Reload it and try again.");
-    const [decision] = await tx
-      .insert(decisions)
-      .values(
-        sealDecision({
-          applicationId: row.application.id,
-          revisionId: row.permit.revisionId,
-          kind: "revoke",
-          step: null,
-          signerId: actor.id,
-          signerName: actor.name,
-          signerRole: STEP_ROLE_LABELS.safety_officer,
-          meaning: DECISION_MEANINGS.revoke,
-          contentHash,
-          comment: body.reason,
-          signedAt: now,
-        }),
-      )
-      .returning();
-    await writeAudit(tx, {
-      actor,
-      action: "permit.revoked",
-      entityType: "permit",
-      entityId: updated.id,
-      data: {
-        number: updated.number,
-        decisionId: decision.id,
-        reason: body.reason,
+/** Writes a prepared revocation in the caller's transaction: state, signed decision, audit, mail. */
+export async function applyRevocation(
+  tx: Tx,
+  actor: CurrentUser,
+  prepared: PreparedRevocation,
+  body: Pick<RevokeBody, "expectedVersion" | "reason">,
+) {
+  const { row, contentHash, today, now } = prepared;
+  const [updated] = await tx
+    .update(permits)
+    .set({
+      state: "revoked",
+      revokedAt: now,
+      revokedById: actor.id,
+      revokedReason: body.reason,
+      version: sql`${permits.version} + 1`,
+      updatedAt: now,
+    })
+    .where(
+      and(
+        eq(permits.id, row.permit.id),
+        eq(permits.state, "active"),
+        eq(permits.version, body.expectedVersion),
+        sql`${permits.validTo} >= ${today}::date`,
+      ),
+    )
+    .returning();
+  if (!updated) throw conflict("This permit changed while you were working on it. Reload it and try again.");
+  const [decision] = await tx
+    .insert(decisions)
+    .values(
+      sealDecision({
         applicationId: row.application.id,
-        contentHash,
-      },
-    });
-    const recipients = await activeEmails(tx, [row.permit.holderId, ...row.application.namedUserIds]);
-    await queueMail(tx, recipients, {
-      kind: "permit_revoked",
-      data: {
-        permitId: updated.id,
-        permitNumber: updated.number,
-        title: row.application.title,
-        reason: body.reason,
+        revisionId: row.permit.revisionId,
+        kind: "revoke",
+        step: null,
+        signerId: actor.id,
         signerName: actor.name,
-      },
-    });
-    return { permit: updated, decision };
+        signerRole: STEP_ROLE_LABELS.safety_officer,
+        meaning: DECISION_MEANINGS.revoke,
+        contentHash,
+        comment: body.reason,
+        signedAt: now,
+      }),
+    )
+    .returning();
+  await writeAudit(tx, {
+    actor,
+    action: "permit.revoked",
+    entityType: "permit",
+    entityId: updated.id,
+    data: {
+      number: updated.number,
+      decisionId: decision.id,
+      reason: body.reason,
+      applicationId: row.application.id,
+      contentHash,
+    },
   });
+  const recipients = await activeEmails(tx, [row.permit.holderId, ...row.application.namedUserIds]);
+  await queueMail(tx, recipients, {
+    kind: "permit_revoked",
+    data: {
+      permitId: updated.id,
+      permitNumber: updated.number,
+      title: row.application.title,
+      reason: body.reason,
+      signerName: actor.name,
+    },
+  });
+  return { permit: updated, decision };
 }

@@ -4,11 +4,13 @@
 import { ACCOUNT_ROWS } from "./matrix-rows/accounts";
 import { APPLICATION_ROWS } from "./matrix-rows/applications";
 import { INSTITUTION_ROWS } from "./matrix-rows/institution";
+import { INCIDENT_ROWS } from "./matrix-rows/incidents";
 import { MAIL_ROWS } from "./matrix-rows/mail";
 import { OPERATIONS_ROWS } from "./matrix-rows/operations";
 import { PDF_VERIFY_ROWS } from "./matrix-rows/pdf-verify";
 import { PRE_USE_CHECK_ROWS } from "./matrix-rows/pre-use-checks";
 import { REVIEW_ROWS } from "./matrix-rows/review";
+import { UPKEEP_ROWS } from "./matrix-rows/upkeep";
 import { REREVIEW_ROWS } from "./matrix-rows/rereview";
 import { RULES_SEARCH_ROWS } from "./matrix-rows/rules-search";
 import { TRAINING_ROWS } from "./matrix-rows/training";
@@ -20,11 +22,13 @@ export const MATRIX = [
   ...ACCOUNT_ROWS,
   ...APPLICATION_ROWS,
   ...INSTITUTION_ROWS,
+  ...INCIDENT_ROWS,
   ...MAIL_ROWS,
   ...OPERATIONS_ROWS,
   ...PDF_VERIFY_ROWS,
   ...PRE_USE_CHECK_ROWS,
   ...REVIEW_ROWS,
+  ...UPKEEP_ROWS,
   ...REREVIEW_ROWS,
   ...RULES_SEARCH_ROWS,
   ...TRAINING_ROWS,

@@ -118,6 +118,36 @@ const MESSAGES: MailMessage[] = [
       recipient: "officer",
     },
   },
+  {
+    kind: "incident_update",
+    data: {
+      incidentId: id,
+      ref: "IR-12",
+      summary: title,
+      incidentKind: "near_miss",
+      step: "closed",
+      state: "closed",
+      actorName: "Dana Whitlock",
+      occurredAt: "2026-05-12T10:00:00Z",
+      location: "B12 lecture theatre",
+      injuries: false,
+      findings: "The grounding hook was left on the far bench.",
+      actions: "A second hook hangs beside the bank.",
+      permitNumber: "HV-2026-0007",
+      recipient: "reporter",
+    },
+  },
+  {
+    kind: "inspection_due",
+    data: {
+      apparatusId: id,
+      apparatusName: title,
+      room: "B12 lecture theatre",
+      dueOn: "2026-02-09",
+      lastInspectedOn: "2026-01-10",
+      intervalDays: 30,
+    },
+  },
 ];
 
 const LINK: Record<MailMessage["kind"], string> = {
@@ -132,6 +162,8 @@ const LINK: Record<MailMessage["kind"], string> = {
   apparatus_changed: `/permits/${permitId}`,
   training_reminder: "/account",
   pre_use_check_failed: `/permits/${permitId}`,
+  incident_update: `/incidents/${id}`,
+  inspection_due: `/apparatus/${id}`,
 };
 
 describe("e-mail bodies", () => {

@@ -53,6 +53,7 @@ export default async function ApparatusListPage({ searchParams }: PageProps) {
           </Link>
           <span className="block text-xs font-normal text-stone-600">
             Revision {a.currentRevision} · {a.ownerName}
+            {a.retiredAt ? " · Retired" : ""}
           </span>
         </>
       ),

@@ -19,6 +19,9 @@ import { assessSetup, BASE_UNIT, formatQuantity, upgradeSetup, type EnergySource
 import { currentTierRules } from "@/lib/hazard-rules";
 import { AppError } from "@/lib/errors";
 import { SOURCE_KIND_LABELS } from "@/lib/apparatus/schemas";
+import { ApparatusIncidents } from "./_components/apparatus-incidents";
+import { ApparatusUpkeep } from "./_components/apparatus-upkeep";
+import { Alert } from "@/app/_components/alert";
 
 export const metadata: Metadata = { title: "Apparatus" };
 
@@ -71,17 +74,24 @@ export default async function ApparatusPage({ params }: PageProps) {
         }
         actions={
           <>
-            {apparatus.canEdit && (
+            {apparatus.canEdit && !apparatus.retiredAt && (
               <ButtonLink href={`/apparatus/${apparatus.id}/edit`} variant="secondary">
                 Edit
               </ButtonLink>
             )}
-            {can(user, "application.create") && (
+            {can(user, "application.create") && !apparatus.retiredAt && (
               <ButtonLink href={`/applications/new?apparatus=${apparatus.id}`}>Use in an application</ButtonLink>
             )}
           </>
         }
       />
+      {apparatus.retiredAt && (
+        <Alert tone="warn" title="Retired" className="mb-6">
+          Kept for the record: no longer offered for new applications and no longer edited. Retired{" "}
+          {formatDateTime(apparatus.retiredAt, timeZone)}
+          {apparatus.retiredReason ? `: ${apparatus.retiredReason}` : "."}
+        </Alert>
+      )}
       <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_22rem]">
         <div className="flex min-w-0 flex-col gap-6">
           <Card title="Hazard result" description="Computed by the engine from the current revision.">
@@ -140,6 +150,8 @@ export default async function ApparatusPage({ params }: PageProps) {
             )}
             {apparatus.notes && <p className="mt-3 text-sm whitespace-pre-line text-stone-700">{apparatus.notes}</p>}
           </Card>
+          <ApparatusUpkeep user={user} apparatusId={apparatus.id} />
+          <ApparatusIncidents user={user} apparatusId={apparatus.id} />
           <Card title="Revisions" flush>
             <DataTable
               caption="Revisions"

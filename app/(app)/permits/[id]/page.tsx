@@ -27,6 +27,7 @@ import { TrainingLapseFlag } from "@/app/_components/training/training-lapse-fla
 import { RenewButton, RevokeForm } from "./_components/permit-actions";
 import { signingFor } from "@/lib/signing/password";
 import { PreUseCheckLog } from "./_components/pre-use-check-log";
+import { PermitIncidents } from "./_components/permit-incidents";
 
 export const metadata: Metadata = { title: "Permit" };
 
@@ -238,6 +239,7 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
               <RenewButton permitId={permit.id} />
             </Card>
           )}
+          <PermitIncidents user={user} permitId={permit.id} />
           {mayRevoke && (
             <Card title="Revoke" description="The holder and the people named on the permit are told by e-mail.">
               <RevokeForm

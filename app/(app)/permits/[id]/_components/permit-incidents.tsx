@@ -1,0 +1,32 @@
+import Link from "next/link";
+import { Card } from "@/app/_components/card";
+import { IncidentLinks } from "@/app/_components/incident-list";
+import type { CurrentUser } from "@/lib/auth/guards";
+import { listIncidents } from "@/lib/incidents/queries";
+import { institutionTimeZone } from "@/lib/settings/queries";
+
+/** The permit page's panel of incident and near-miss reports that name it (those this user may read). */
+export async function PermitIncidents({ user, permitId }: { user: CurrentUser; permitId: string }) {
+  const [{ rows, total }, timeZone] = await Promise.all([listIncidents(user, { permitId }), institutionTimeZone()]);
+  return (
+    <Card title="Incidents and near misses">
+      <IncidentLinks
+        rows={rows}
+        timeZone={timeZone}
+        empty="No reports name this permit."
+        footer={
+          <p className="flex flex-wrap gap-x-3">
+            {total > rows.length && (
+              <Link href={`/incidents?permitId=${permitId}`} className="text-ink-800 underline decoration-ink-300">
+                All {total} reports
+              </Link>
+            )}
+            <Link href={`/incidents/new?permit=${permitId}`} className="text-ink-800 underline decoration-ink-300">
+              Report an incident or near miss
+            </Link>
+          </p>
+        }
+      />
+    </Card>
+  );
+}
