@@ -3,7 +3,7 @@
 // right page; header injection through titles and names is neutralised; an SMTP server that is down
 // delays mail and loses none; concurrent and crashing workers never send a message twice.
 import { eq } from "drizzle-orm";
-import { describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { mailOutbox } from "@/db/schema";
 import { startWorker } from "@/lib/jobs/worker";
@@ -38,6 +38,14 @@ function links(text: string): URL[] {
 function ofKind(address: string, kind: string): Caught[] {
   return caughtTo(address).filter((m) => m.headers["x-benchclear-kind"] === kind);
 }
+
+// The files of one copy of the test set-up run one after another, and most of them leave their mail
+// in the outbox (nothing sends it in the test server). deliverDueMail() sends every due row, so send
+// that backlog first: each case below then waits for its own mail only, and a case that runs out of
+// time cannot leave a send running into the next one.
+beforeAll(async () => {
+  await deliverDueMail({ limit: 100_000 });
+}, 300_000);
 
 describe("every kind of mail, through the real inbox", () => {
   it("reaches the right recipient with an HTML and a text part, says why, and links to the right page", async () => {
