@@ -7,6 +7,7 @@ import { readInstitutionSettings } from "@/lib/settings/queries";
 import { queueMail } from "@/lib/outbox";
 import { addDays, todayIn } from "@/lib/permits/dates";
 import { currentReminderRules } from "@/lib/rules/queries";
+import { runTrainingReminders, type TrainingReminderReport } from "@/lib/training/reminders";
 import { queueInspectionReminders, type InspectionReminderReport } from "@/lib/upkeep/actions";
 import { DEFAULT_SCHEDULE, CATCH_UP_DAYS, reminderDue, reminderKey, type ReminderPlan } from "./reminders";
 
@@ -31,6 +32,8 @@ export type ReminderRunReport = {
   queued: { permitId: string; number: string; kind: string; dueDate: string; to: string[] }[];
   /** Apparatus whose inspection fell due: one reminder each to the owner (lib/upkeep). */
   inspections: InspectionReminderReport;
+  /** Courses lapsing within 30 or 7 days: one reminder each to the person and the officers (lib/training). */
+  training: TrainingReminderReport;
 };
 
 type Candidate = {
@@ -176,7 +179,7 @@ export async function runReminders(options: { now?: Date } = {}): Promise<Remind
   const today = todayIn(timeZone, now);
   const schedule = await reminderSchedule();
   const expired = await expirePermits(today, now);
-  const report: ReminderRunReport = { today, timeZone, schedule, expired, queued: [], inspections: [] };
+  const report: ReminderRunReport = { today, timeZone, schedule, expired, queued: [], inspections: [], training: [] };
   for (const permit of await candidates(today, schedule)) {
     const plan = reminderDue({
       today,
@@ -192,5 +195,6 @@ export async function runReminders(options: { now?: Date } = {}): Promise<Remind
       report.queued.push({ permitId: permit.id, number: permit.number, kind: plan.kind, dueDate: plan.dueDate, to });
   }
   report.inspections = await queueInspectionReminders(today, timeZone);
+  report.training = await runTrainingReminders(today);
   return report;
 }

@@ -72,6 +72,8 @@ export async function runTrainingReminders(today: string): Promise<TrainingRemin
     ORDER BY lapses_on, name
   `);
   const report: TrainingReminderReport = [];
+  // The officers once per run, not once per lapsing record.
+  const officers = rows.rows.length > 0 ? await usersWithPermission(db, "training.reminded", "institution") : [];
   for (const r of rows.rows) {
     const plan = trainingReminderDue(today, r.lapses_on);
     if (!plan) continue;
@@ -94,10 +96,7 @@ export async function runTrainingReminders(today: string): Promise<TrainingRemin
       ) {
         sent.push(r.email);
       }
-      const officers = (await usersWithPermission(tx, "training.reminded", "institution")).filter(
-        (o) => o.email.toLowerCase() !== r.email.toLowerCase(),
-      );
-      for (const officer of officers) {
+      for (const officer of officers.filter((o) => o.email.toLowerCase() !== r.email.toLowerCase())) {
         const n = await queueMail(
           tx,
           officer.email,

@@ -7,15 +7,15 @@
 import { and, desc, eq, like } from "drizzle-orm";
 import { afterAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
-import { auditEvents, permits, ruleSets } from "@/db/schema";
+import { auditEvents, courseTypes, mailOutbox, permits, ruleSets, trainingRecords } from "@/db/schema";
 import { runReminders } from "@/lib/jobs/actions";
 import { instantAt } from "@/lib/jobs/clock";
 import { reminderDue, reminderKey } from "@/lib/jobs/reminders";
 import { startWorker } from "@/lib/jobs/worker";
 import { deliverDueMail } from "@/lib/mail/actions";
 import { addDays, todayIn } from "@/lib/permits/dates";
-import { requireDatabase } from "../support/db";
-import { caughtTo, createPermitFixture, outboxRowsTo, runChild, useTimeZone, waitFor } from "./support";
+import { createDepartment, createUser, requireDatabase, uniq } from "../support/db";
+import { caughtTo, createPermitFixture, outboxIdsTo, outboxRowsTo, runChild, useTimeZone, waitFor } from "./support";
 
 requireDatabase();
 
@@ -154,15 +154,17 @@ describe("the daily permit job", () => {
     const later = await runReminders({ now: new Date(jobNow.getTime() + 6 * 3600_000) });
     expect(later.queued.filter((q) => ids.has(q.permitId))).toEqual([]);
 
-    // Delivered: one message per recipient, each with an HTML and a text part.
-    await deliverDueMail({ limit: 10_000 });
-    for (const address of [
+    // Delivered: one message per recipient, each with an HTML and a text part. Only these rows are
+    // sent: other test files queue mail into the same outbox meanwhile.
+    const recipients = [
       thirty.holder.email,
       seven.holder.email,
       lastDay.holder.email,
       ended.holder.email,
       ended.reviewer.email,
-    ]) {
+    ];
+    await deliverDueMail({ ids: (await Promise.all(recipients.map(outboxIdsTo))).flat() });
+    for (const address of recipients) {
       const caught = caughtTo(address);
       expect(caught, address).toHaveLength(1);
       expect(caught[0].html).toContain("/permits/");
@@ -235,6 +237,41 @@ describe("the daily permit job", () => {
     }
   });
 
+  it("reminds of a course that lapses in 7 days, to the person and a safety officer, once", async () => {
+    const dept = await createDepartment();
+    const person = await createUser({ roles: ["instructor"], departmentId: dept.id });
+    const officer = await createUser({ roles: ["safety_officer"], departmentId: dept.id });
+    const [course] = await getDb()
+      .insert(courseTypes)
+      .values({ name: uniq("Course"), validityMonths: 12, minTier: 2, departmentId: dept.id })
+      .returning();
+    // Completed a year before the day that is 7 days after the job's day: the 7-day reminder is due.
+    const lapse = addDays(jobDay, 7);
+    const completedOn = `${Number(lapse.slice(0, 4)) - 1}${lapse.slice(4)}`.replace(/-02-29$/, "-02-28");
+    await getDb()
+      .insert(trainingRecords)
+      .values({
+        userId: person.id,
+        courseTypeId: course.id,
+        completedOn,
+        trainer: "Safety office",
+        recordedById: officer.id,
+      });
+
+    const first = await runReminders({ now: jobNow });
+    const mine = first.training.filter((t) => t.userId === person.id);
+    expect(mine).toHaveLength(1);
+    expect(mine[0].to).toEqual(expect.arrayContaining([person.email, officer.email]));
+    const again = await runReminders({ now: jobNow });
+    expect(again.training.filter((t) => t.userId === person.id)).toEqual([]);
+    const rows = await getDb()
+      .select({ to: mailOutbox.toAddress })
+      .from(mailOutbox)
+      .where(like(mailOutbox.dedupeKey, `training:${person.id}:${course.id}:%`));
+    expect(rows.filter((r) => r.to === person.email)).toHaveLength(1);
+    expect(rows.filter((r) => r.to === officer.email)).toHaveLength(1);
+  });
+
   it("counts days in the institution's time zone: the day turns at local midnight", async () => {
     // Day D in Auckland ends at local midnight, which is 11:00 or 12:00 UTC on D (NZDT +13 / NZST +12).
     const d = addDays(realToday, -2);
@@ -272,13 +309,14 @@ describe("the daily permit job on several workers", () => {
       createPermitFixture({ validFrom: addDays(jobDay, -60), validTo: addDays(jobDay, 6) }),
       createPermitFixture({ validFrom: addDays(jobDay, -60), validTo: addDays(jobDay, -1) }),
     ]);
+    const recipients = [fixtures[0].holder.email, fixtures[1].holder.email, fixtures[1].reviewer.email];
+    const to = ["--to", recipients.join(",")];
     const [a, b] = await Promise.all([
-      runChild("worker-child", ["--reminders-at", jobNow, "--deliver"]),
-      runChild("worker-child", ["--reminders-at", jobNow, "--deliver"]),
+      runChild("worker-child", ["--reminders-at", jobNow, "--deliver", ...to]),
+      runChild("worker-child", ["--reminders-at", jobNow, "--deliver", ...to]),
     ]);
     expect(a.code, a.stderr).toBe(0);
     expect(b.code, b.stderr).toBe(0);
-    const recipients = [fixtures[0].holder.email, fixtures[1].holder.email, fixtures[1].reviewer.email];
     for (const address of recipients) {
       expect(await outboxRowsTo([address]), address).toHaveLength(1);
       expect(caughtTo(address), address).toHaveLength(1);
@@ -295,11 +333,20 @@ describe("the daily permit job on several workers", () => {
     const fixture = await createPermitFixture({ validFrom: addDays(jobDay, -60), validTo: addDays(jobDay, 6) });
     await runReminders({ now: new Date(jobNow) });
     const [row] = await outboxRowsTo([fixture.holder.email]);
-    const killed = await runChild("worker-child", ["--deliver", "--kill-at", "accepted", "--rows", String(row.id)]);
+    const killed = await runChild("worker-child", [
+      ...["--deliver", "--to", fixture.holder.email],
+      ...["--kill-at", "accepted", "--rows", String(row.id)],
+    ]);
     expect(killed.signal).toBe("SIGKILL");
     expect(caughtTo(fixture.holder.email)).toHaveLength(1);
     // Recovery: the job again and a fresh worker. Nothing is queued or sent twice.
-    const recovery = await runChild("worker-child", ["--reminders-at", jobNow, "--deliver"]);
+    const recovery = await runChild("worker-child", [
+      "--reminders-at",
+      jobNow,
+      "--deliver",
+      "--to",
+      fixture.holder.email,
+    ]);
     expect(recovery.code, recovery.stderr).toBe(0);
     expect(await outboxRowsTo([fixture.holder.email])).toHaveLength(1);
     expect(caughtTo(fixture.holder.email)).toHaveLength(1);
@@ -309,13 +356,22 @@ describe("the daily permit job on several workers", () => {
     const fixture = await createPermitFixture({ validFrom: addDays(jobDay, -60), validTo: addDays(jobDay, 29) });
     await runReminders({ now: new Date(jobNow) });
     const [row] = await outboxRowsTo([fixture.holder.email]);
-    const killed = await runChild("worker-child", ["--deliver", "--kill-at", "data", "--rows", String(row.id)]);
+    const killed = await runChild("worker-child", [
+      ...["--deliver", "--to", fixture.holder.email],
+      ...["--kill-at", "data", "--rows", String(row.id)],
+    ]);
     expect(killed.signal).toBe("SIGKILL");
     // The server had the message but not its final dot: it discarded it. The row is still queued.
     expect(caughtTo(fixture.holder.email)).toHaveLength(0);
     const [after] = await outboxRowsTo([fixture.holder.email]);
     expect(after.status).toBe("queued");
-    const recovery = await runChild("worker-child", ["--reminders-at", jobNow, "--deliver"]);
+    const recovery = await runChild("worker-child", [
+      "--reminders-at",
+      jobNow,
+      "--deliver",
+      "--to",
+      fixture.holder.email,
+    ]);
     expect(recovery.code, recovery.stderr).toBe(0);
     expect(caughtTo(fixture.holder.email)).toHaveLength(1);
   });
