@@ -5,6 +5,12 @@ import { SESSION_ABSOLUTE_SECONDS, SESSION_IDLE_SECONDS } from "@/lib/auth/sessi
 // carries only the user's id, the session version it was issued under and two timestamps; roles,
 // name and the disabled flag are read from the database on every request (lib/auth/guards.ts).
 
+/**
+ * The request header proxy.ts sets to the path and query a page request asked for (overwriting any
+ * the client sent); requirePageUser sends a refused visitor to /sign-in with it as `from`.
+ */
+export const ASKED_PATH_HEADER = "x-benchclear-asked-path";
+
 /** The id of the institution's OpenID Connect provider in Auth.js (its callback path ends in it). */
 export const INSTITUTION_PROVIDER = "institution";
 
@@ -27,6 +33,8 @@ declare module "@auth/core/jwt" {
     lastSeen?: number; // ms since epoch
     authAt?: number; // ms since epoch: the provider's auth_time, for institutional sign-ins
     via?: string; // "institution" for institutional sign-ins
+    /** The provider's ID token, kept (encrypted in the session cookie) as the id_token_hint of signing out there. */
+    idToken?: string;
   }
 }
 

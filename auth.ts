@@ -114,6 +114,8 @@ function config(): NextAuthConfig {
         const authTime = typeof claims.auth_time === "number" ? claims.auth_time * 1000 : Date.now();
         token.authAt = Math.min(authTime, Date.now());
         token.via = INSTITUTION_PROVIDER;
+        // For RP-initiated logout (lib/auth/sso-logout.ts); the cookie is encrypted (JWE), never read by scripts.
+        if (typeof account.id_token === "string" && account.id_token.length <= 4096) token.idToken = account.id_token;
         return token;
       },
     },

@@ -1,6 +1,6 @@
 import NextAuth from "next-auth";
 import { NextResponse, type NextFetchEvent, type NextRequest } from "next/server";
-import { authConfig } from "./auth.config";
+import { ASKED_PATH_HEADER, authConfig } from "./auth.config";
 import { countAtVerifyGate, VERIFY_HEADERS, VERIFY_PATH_PREFIX } from "@/lib/verify/gate";
 
 // Runs before every page request. It does three things only: sends signed-out visitors of signed-in
@@ -11,6 +11,14 @@ import { countAtVerifyGate, VERIFY_HEADERS, VERIFY_PATH_PREFIX } from "@/lib/ver
 const { auth } = NextAuth(authConfig);
 
 const PUBLIC_PREFIXES = ["/sign-in", "/invite/", "/verify/", "/api/"];
+
+/** The path and query asked for, without the client router's own `_rsc` parameter. */
+function askedPath(url: URL): string {
+  const search = new URLSearchParams(url.search);
+  search.delete("_rsc");
+  const query = search.toString();
+  return url.pathname + (query ? `?${query}` : "");
+}
 
 function contentSecurityPolicy(nonce: string): string {
   const dev = process.env.NODE_ENV !== "production";
@@ -43,14 +51,18 @@ function withSecurityHeaders(request: NextRequest, extra?: Headers): NextRespons
 // Every page but the status page: Auth.js reads (and refreshes) the session cookie; signed-out
 // visitors of signed-in pages go to /sign-in.
 const withSession = auth(async (request) => {
-  const { pathname, search } = request.nextUrl;
+  const { pathname } = request.nextUrl;
+  const asked = askedPath(request.nextUrl);
   const isPublic = PUBLIC_PREFIXES.some((p) => pathname === p.replace(/\/$/, "") || pathname.startsWith(p));
   if (!isPublic && !request.auth?.user?.id) {
     const url = new URL("/sign-in", request.nextUrl);
-    if (pathname !== "/") url.searchParams.set("from", pathname + search);
+    if (asked !== "/") url.searchParams.set("from", asked);
     return NextResponse.redirect(url);
   }
-  return withSecurityHeaders(request);
+  // The page asked for, for the page's own guard: a session the proxy let through can still be
+  // refused there (a bumped session version, a disabled account), and the sign-in it sends the person
+  // to should lead back here, query included (lib/auth/guards.ts requirePageUser).
+  return withSecurityHeaders(request, new Headers({ [ASKED_PATH_HEADER]: asked }));
 }) as unknown as (request: NextRequest, event: NextFetchEvent) => Promise<Response>;
 
 export default async function proxy(request: NextRequest, event: NextFetchEvent) {

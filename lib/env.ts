@@ -147,10 +147,16 @@ export const envSchema = z
     OIDC_CLAIM_NAME: claimName.default("name"),
     OIDC_CLAIM_EMAIL: claimName.default("email"),
     OIDC_CLAIM_DEPARTMENT: claimName.default("department"),
-    // Optional: a claim listing the person's groups, and which group gives which role on first sign-in
-    // ("group=role,group=role"; roles as in lib/roles.ts).
+    // Optional: a claim listing the person's groups, and which group gives which role
+    // ("group=role,group=role"; roles as in lib/roles.ts): a new account's roles, and on each later
+    // sign-in as OIDC_GROUP_ROLES_MODE says.
     OIDC_CLAIM_GROUPS: claimName.optional(),
     OIDC_GROUP_ROLES: groupRoles.optional(),
+    // add (default): each sign-in adds the roles the person's groups map to and removes none (roles
+    // given in the product stay). own: the directory owns the mapped roles: each sign-in whose group
+    // claim is present also removes a mapped role none of the person's groups gives (roles outside
+    // the map stay the product's; an absent claim changes nothing). lib/auth/sso.ts.
+    OIDC_GROUP_ROLES_MODE: z.enum(["add", "own"], { error: 'must be "add" or "own"' }).default("add"),
     // Roles of a new account whose groups map to none (default: instructor).
     OIDC_DEFAULT_ROLES: roleList.default(["instructor"]),
     // false: e-mail and password sign-in (and setting or changing a password) is refused; people

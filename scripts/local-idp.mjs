@@ -28,6 +28,12 @@ const redirectUris = (
   .split(/\s+/)
   .filter(Boolean);
 
+// Where the provider may send the browser after signing out (RP-initiated logout): each app's
+// sign-in page, beside each registered callback.
+const postLogoutRedirectUris = redirectUris.map((uri) =>
+  uri.replace(/\/api\/auth\/callback\/institution$/, "/sign-in"),
+);
+
 const byLogin = new Map(LOCAL_IDP_ACCOUNTS.map((a) => [a.login, a]));
 const bySub = new Map(LOCAL_IDP_ACCOUNTS.map((a) => [a.sub, a]));
 
@@ -46,6 +52,7 @@ const provider = new Provider(issuer, {
       client_id: clientId,
       client_secret: clientSecret,
       redirect_uris: redirectUris,
+      post_logout_redirect_uris: postLogoutRedirectUris,
       grant_types: ["authorization_code"],
       response_types: ["code"],
       token_endpoint_auth_method: "client_secret_basic",
@@ -61,7 +68,29 @@ const provider = new Provider(issuer, {
     email: ["email", "email_verified"],
     profile: ["name", "department", "groups"],
   },
-  features: { devInteractions: { enabled: false } },
+  features: {
+    devInteractions: { enabled: false },
+    // OpenID Connect RP-Initiated Logout 1.0: Benchclear's sign-out sends the browser to the
+    // end_session_endpoint with id_token_hint and post_logout_redirect_uri. The provider's
+    // confirmation is answered "yes" by the page itself (a person signing out of Benchclear asked
+    // for it); without scripts the button does it.
+    rpInitiatedLogout: {
+      enabled: true,
+      async logoutSource(ctx, form) {
+        ctx.type = "html";
+        ctx.body = page(
+          "Signing you out",
+          `${form.replace("</form>", '<input type="hidden" name="logout" value="yes"></form>')}
+<button type="submit" form="op.logoutForm">Sign out of your institute account</button>
+<script>document.getElementById("op.logoutForm").submit();</script>`,
+        );
+      },
+      async postLogoutSuccessSource(ctx) {
+        ctx.type = "html";
+        ctx.body = page("Signed out", "<p>You are signed out of your institute account.</p>");
+      },
+    },
+  },
   interactions: { url: (_ctx, interaction) => `/interaction/${interaction.uid}` },
   async findAccount(_ctx, sub) {
     const account = bySub.get(sub);
@@ -179,7 +208,9 @@ const server = http.createServer(async (req, res) => {
 });
 
 server.listen(port, host, () => {
-  console.log(`local identity provider: ${issuer} (client ${clientId}; redirect ${redirectUris.join(" ")})`);
+  console.log(
+    `local identity provider: ${issuer} (client ${clientId}; redirect ${redirectUris.join(" ")}; after sign-out ${postLogoutRedirectUris.join(" ")})`,
+  );
 });
 
 // Stop at once: open keep-alive connections must not hold the process (the scripts stop it by signal).

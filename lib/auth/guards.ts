@@ -1,8 +1,10 @@
 import "server-only";
 import { eq } from "drizzle-orm";
+import { headers } from "next/headers";
 import { redirect } from "next/navigation";
 import { cache } from "react";
 import { auth } from "@/auth";
+import { ASKED_PATH_HEADER } from "@/auth.config";
 import { db } from "@/db";
 import { users } from "@/db/schema";
 import { AppError, forbidden, unauthenticated } from "@/lib/errors";
@@ -67,7 +69,12 @@ export async function requirePermission(permission: Permission): Promise<Current
 /** For pages: signed-out visitors go to the sign-in page; a missing permission shows a 403 page. */
 export async function requirePageUser(permission?: Permission, from?: string): Promise<CurrentUser> {
   const user = await getCurrentUser();
-  if (!user) redirect(from ? `/sign-in?from=${encodeURIComponent(from)}` : "/sign-in");
+  if (!user) {
+    // The page asked for, query included, as proxy.ts saw it; else the page's own path. The sign-in
+    // page reduces it to a path on this site (returnPathSchema) whatever a client sent.
+    const asked = (await headers()).get(ASKED_PATH_HEADER) ?? from;
+    redirect(asked && asked !== "/" ? `/sign-in?from=${encodeURIComponent(asked)}` : "/sign-in");
+  }
   if (permission && !can(user, permission)) redirect("/forbidden");
   return user;
 }

@@ -4,18 +4,21 @@ import { db } from "@/db";
 import { departments, invitations, users } from "@/db/schema";
 import { writeAudit } from "@/lib/audit";
 import { env, type Env } from "@/lib/env";
-import type { Role } from "@/lib/roles";
+import { ROLES, type Role } from "@/lib/roles";
 import { normaliseEmail } from "./credentials";
 import { SSO_REFUSALS as REFUSALS, type SsoRefusal } from "./sso-messages";
 
 // Institutional sign-in (OpenID Connect): who the provider says someone is → a Benchclear account.
 // The provider's issuer and subject identify the person (OIDC Core 1.0 §2: `sub` is never reassigned
 // within an issuer). On the first sign-in an account is made from the configured claims (name, e-mail,
-// department) with roles from the group claim (OIDC_GROUP_ROLES) or OIDC_DEFAULT_ROLES; afterwards the
-// product owns roles and department (the admin pages), and a disabled account stays shut. An open
-// invitation for the address gives the new account its roles and department instead (and is spent). An existing
-// account with the same e-mail (an invited or demo user) is linked once, unless the provider says
-// the address is unverified. Every outcome is in the audit trail.
+// department) with roles from the group claim (OIDC_GROUP_ROLES) or OIDC_DEFAULT_ROLES. On every later
+// sign-in the directory's word on name, e-mail and department is taken again (refreshFromClaims:
+// a claim that is absent, names no department here, or an address another account holds changes
+// nothing), and the group map adds roles (OIDC_GROUP_ROLES_MODE=add) or also takes back the mapped
+// roles no group gives any more (=own); roles outside the map stay the product's. A disabled account
+// stays shut. An open invitation for the address gives the new account its roles and department
+// instead (and is spent). An existing account with the same e-mail (an invited or demo user) is
+// linked once, unless the provider says the address is unverified. Every outcome is in the audit trail.
 
 export type SsoConfig = Pick<
   Env,
@@ -25,7 +28,8 @@ export type SsoConfig = Pick<
   | "OIDC_CLAIM_GROUPS"
   | "OIDC_GROUP_ROLES"
   | "OIDC_DEFAULT_ROLES"
->;
+> &
+  Partial<Pick<Env, "OIDC_GROUP_ROLES_MODE">>;
 
 export type SsoClaims = Record<string, unknown>;
 
@@ -95,6 +99,8 @@ export async function signInWithProvider(
       sessionVersion: users.sessionVersion,
       disabledAt: users.disabledAt,
       oidcSubject: users.oidcSubject,
+      departmentId: users.departmentId,
+      roles: users.roles,
     };
     // Lock the candidate rows, so two first sign-ins of one person at once make one account.
     const candidates = await tx
@@ -138,23 +144,20 @@ export async function signInWithProvider(
 
     let user: SsoUser;
     let provisioned = false;
+    const department = departmentClaim ? await departmentNamed(tx, departmentClaim) : undefined;
     if (existing) {
-      user = { id: existing.id, email: existing.email, name: existing.name, sessionVersion: existing.sessionVersion };
+      user = await refreshFromClaims(tx, existing, {
+        issuer,
+        subject,
+        claims,
+        config,
+        name: claimText(claims, config.OIDC_CLAIM_NAME, 120),
+        email,
+        emailHolder: candidates.find((c) => c.id !== existing.id && c.email.toLowerCase() === email),
+        departmentClaim,
+        department,
+      });
     } else {
-      const department = departmentClaim
-        ? (
-            await tx
-              .select({ id: departments.id, name: departments.name })
-              .from(departments)
-              .where(
-                or(
-                  eq(sql`lower(${departments.code})`, departmentClaim.toLowerCase()),
-                  eq(sql`lower(${departments.name})`, departmentClaim.toLowerCase()),
-                ),
-              )
-              .limit(1)
-          )[0]
-        : undefined;
       const fromGroups = rolesFromGroups(claimList(claims, config.OIDC_CLAIM_GROUPS), config);
       // An admin's open invitation for this (verified) address decides roles and department: it is
       // how an admin sets them up before the person's first sign-in. It is spent here.
@@ -228,6 +231,132 @@ export async function signInWithProvider(
     });
     return { ok: true, user, provisioned };
   });
+}
+
+type Tx = Parameters<Parameters<typeof db.transaction>[0]>[0];
+
+/** The department a claim names, by code or by name (either spelling, any case). */
+async function departmentNamed(tx: Tx, claim: string) {
+  const [row] = await tx
+    .select({ id: departments.id, name: departments.name })
+    .from(departments)
+    .where(
+      or(
+        eq(sql`lower(${departments.code})`, claim.toLowerCase()),
+        eq(sql`lower(${departments.name})`, claim.toLowerCase()),
+      ),
+    )
+    .limit(1);
+  return row;
+}
+
+/**
+ * The roles an existing account holds after this sign-in's group claim: `add` unions in every mapped
+ * role; `own` also drops a mapped role no present group gives (when the claim is there at all).
+ * Roles outside the map are the product's and never change here. Null: no group map configured.
+ */
+export function rolesAfterSignIn(
+  current: readonly Role[],
+  claims: SsoClaims,
+  config: Pick<SsoConfig, "OIDC_CLAIM_GROUPS" | "OIDC_GROUP_ROLES" | "OIDC_DEFAULT_ROLES" | "OIDC_GROUP_ROLES_MODE">,
+): Role[] | null {
+  const map = config.OIDC_GROUP_ROLES ?? [];
+  if (!map.length || !config.OIDC_CLAIM_GROUPS) return null;
+  const groups = claimList(claims, config.OIDC_CLAIM_GROUPS);
+  const given = new Set(map.filter((m) => groups.includes(m.group)).map((m) => m.role));
+  const next = new Set<Role>(current);
+  for (const role of given) next.add(role);
+  const claimPresent = claims[config.OIDC_CLAIM_GROUPS] !== undefined && claims[config.OIDC_CLAIM_GROUPS] !== null;
+  if (config.OIDC_GROUP_ROLES_MODE === "own" && claimPresent) {
+    for (const { role } of map) if (!given.has(role)) next.delete(role);
+    // An account keeps at least one role (the admin forms require one): the default roles.
+    if (next.size === 0) for (const role of config.OIDC_DEFAULT_ROLES) next.add(role);
+  }
+  return ROLES.filter((r) => next.has(r));
+}
+
+/**
+ * A later sign-in of a known account: the provider's current name, e-mail, department and (with a
+ * group map) roles replace the stored ones, in the sign-in's transaction, with one
+ * `user.claims_updated` audit row listing each change (from → to) when anything changed. A changed
+ * role set also ends the account's other sessions (session version + 1), as an admin's change does;
+ * the session this sign-in makes is issued under the new version.
+ */
+async function refreshFromClaims(
+  tx: Tx,
+  account: {
+    id: string;
+    email: string;
+    name: string;
+    sessionVersion: number;
+    departmentId: string | null;
+    roles: Role[];
+  },
+  input: {
+    issuer: string;
+    subject: string;
+    claims: SsoClaims;
+    config: SsoConfig;
+    name: string | null;
+    email: string;
+    /** Another account that already has the claimed address (it stays theirs). */
+    emailHolder: { id: string } | undefined;
+    departmentClaim: string | null;
+    department: { id: string; name: string } | undefined;
+  },
+): Promise<SsoUser> {
+  const changes: Record<string, { from: unknown; to: unknown }> = {};
+  const kept: Record<string, string> = {};
+  const set: Partial<typeof users.$inferInsert> = {};
+  if (input.name && input.name !== account.name) {
+    changes.name = { from: account.name, to: input.name };
+    set.name = input.name;
+  }
+  if (input.email !== account.email.toLowerCase()) {
+    if (input.claims.email_verified === false) kept.email = "the provider marks the new address unverified";
+    else if (input.emailHolder) kept.email = "another account has the new address";
+    else {
+      changes.email = { from: account.email, to: input.email };
+      set.email = input.email;
+    }
+  }
+  if (input.department && input.department.id !== account.departmentId) {
+    changes.departmentId = { from: account.departmentId, to: input.department.id };
+    set.departmentId = input.department.id;
+  } else if (input.departmentClaim && !input.department) {
+    kept.departmentId = `no department here is called "${input.departmentClaim}"`;
+  }
+  const roles = rolesAfterSignIn(account.roles, input.claims, input.config);
+  if (roles && roles.join(",") !== ROLES.filter((r) => account.roles.includes(r)).join(",")) {
+    changes.roles = { from: account.roles, to: roles };
+    set.roles = roles;
+  }
+  if (Object.keys(changes).length === 0) {
+    return { id: account.id, email: account.email, name: account.name, sessionVersion: account.sessionVersion };
+  }
+  const [row] = await tx
+    .update(users)
+    .set({
+      ...set,
+      updatedAt: new Date(),
+      ...(set.roles ? { sessionVersion: sql`${users.sessionVersion} + 1` } : {}),
+    })
+    .where(eq(users.id, account.id))
+    .returning({ id: users.id, email: users.email, name: users.name, sessionVersion: users.sessionVersion });
+  await writeAudit(tx, {
+    actor: { id: row.id, name: row.name },
+    action: "user.claims_updated",
+    entityType: "user",
+    entityId: row.id,
+    data: {
+      issuer: input.issuer,
+      subject: input.subject,
+      changes,
+      ...(Object.keys(kept).length ? { kept } : {}),
+      ...(changes.roles ? { mode: input.config.OIDC_GROUP_ROLES_MODE ?? "add" } : {}),
+    },
+  });
+  return row;
 }
 
 /** The account linked to this identity, for the session token (after signInWithProvider said yes). */

@@ -1,8 +1,11 @@
 // Institutional sign-in in a real browser, through the local identity provider `npm test` runs
-// (scripts/local-idp.mjs, the fictional Aldermere Institute's directory): a first sign-in makes the
-// account in the department the directory names; an admin gives it the safety officer's role in the
-// product; the person signs in again and approves an application with a fresh institutional sign-in
-// instead of a password; disabling the account in the product ends their access at the next request.
+// (scripts/local-idp.mjs, the fictional Aldermere Institute's directory): a first sign-in, started from
+// a page asked for while signed out, makes the account in the department the directory names and
+// returns to that page; an admin gives it the safety officer's role in the product; the person signs
+// in again and approves an application with a fresh institutional sign-in instead of a password;
+// signing out ends the session at the provider too, so the next sign-in asks for the password there
+// again; a disabled account is not let back in. Then a second server with password sign-in turned off: no password
+// form, and its API refuses a password.
 import { and, eq, sql } from "drizzle-orm";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -13,7 +16,8 @@ import { DEFAULT_AUDIENCE_RULES, DEFAULT_CHAIN_RULES } from "@/lib/rules/chain";
 import { LOCAL_IDP_ACCOUNTS, LOCAL_IDP_PASSWORD } from "@/scripts/lib/local-idp-accounts.mjs";
 import { asActor, createSubmittedApplication, createTeam } from "../review/support";
 import { createUser, requireDatabase } from "../support/db";
-import { http, signIn } from "../support/http";
+import { baseUrl, http, signIn } from "../support/http";
+import { startSecondServer, type SecondServer } from "../support/second-server";
 import { launchBrowser, newContext, seriousA11yViolations } from "./support/browser";
 import { permitForApplication } from "./support/journey";
 
@@ -71,11 +75,23 @@ describe("institutional sign-in through the local identity provider", () => {
       const context = await newContext(browser);
       context.setDefaultTimeout(45_000);
       const page = await context.newPage();
-      await page.goto("/sign-in");
+      // Signed out, the person asks for a page with a query: sign-in first, then back to that page.
+      const asked = "/search?q=Induction+coil";
+      await page.goto(asked);
+      await page.waitForURL((url) => url.pathname === "/sign-in" && url.searchParams.get("from") === asked);
       expect(await seriousA11yViolations(page)).toEqual([]);
-      await signInThroughInstitute(page, { login: true });
-      await page.waitForURL((url) => url.pathname === "/");
-      await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Dashboard");
+      await page.getByRole("button", { name: "Sign in with your Aldermere account" }).click();
+      await page.waitForURL((url) => url.port === process.env.TEST_OIDC_PORT);
+      // What a page request answered after the sign-in started used to do (proxy.ts's session check
+      // sets Auth.js's callback-URL cookie to the site's root when a request has none): the return
+      // must not depend on that cookie.
+      await context.addCookies([{ name: "authjs.callback-url", value: baseUrl(), url: baseUrl() }]);
+      await page.getByLabel("Username").fill(noor.login);
+      await page.getByLabel("Password").fill(LOCAL_IDP_PASSWORD);
+      await page.getByRole("button", { name: "Sign in" }).click();
+      await page.waitForURL((url) => url.pathname === "/search");
+      expect(new URL(page.url()).search).toBe("?q=Induction+coil");
+      expect(await page.getByRole("heading", { level: 1 }).textContent()).toMatch(/Search/);
 
       // First sign-in: an account from the directory's claims, in Physics, with the default role.
       const [account] = await getDb()
@@ -128,19 +144,79 @@ describe("institutional sign-in through the local identity provider", () => {
         .where(and(eq(decisions.revisionId, permit.revisionId), eq(decisions.kind, "approve")));
       expect(approval.signerId).toBe(account.id);
 
-      // Disabled in the product: the next request is signed out, and the provider cannot let them back in.
+      // Signing out ends the session at the provider too (RP-initiated logout): the next sign-in
+      // asks for the institute password again instead of passing straight through.
+      await page.getByRole("button", { name: "Sign out" }).click();
+      await page.waitForURL((url) => url.origin === baseUrl() && url.pathname === "/sign-in");
+      const endedAtProvider = await getDb()
+        .select({ action: auditEvents.action })
+        .from(auditEvents)
+        .where(and(eq(auditEvents.entityId, account.id), eq(auditEvents.action, "session.signed_out")));
+      expect(endedAtProvider).toHaveLength(1);
+
+      // Disabled in the product meanwhile (that a live session ends at its next request is
+      // tests/auth/institution-sign-in.test.ts's): the provider asks for the password again, and
+      // vouching for the person no longer lets them in.
       const disable = await http(`/api/admin/users/${account.id}`, {
         method: "PATCH",
         cookie: adminCookie,
         body: { disabled: true },
       });
       expect(disable.status, disable.text).toBe(200);
-      await page.goto("/");
-      await page.waitForURL(/\/sign-in/);
-      await signInThroughInstitute(page, { login: false });
+      await signInThroughInstitute(page, { login: true });
       await page.waitForURL(/\/sign-in\?error=disabled/);
       expect(await page.getByText("This account is disabled.").isVisible()).toBe(true);
       await context.close();
     },
   );
+});
+
+describe("password sign-in turned off (PASSWORD_SIGN_IN=false), on a second server of the same build", () => {
+  let browser: Browser;
+  let second: SecondServer | undefined;
+  beforeAll(async () => {
+    [browser, second] = await Promise.all([launchBrowser(), startSecondServer({ PASSWORD_SIGN_IN: "false" })]);
+  }, 120_000);
+  afterAll(async () => {
+    second?.stop();
+    await browser?.close();
+  });
+
+  it("shows only the institution's button, and its API refuses a password and setting one", SLOW, async () => {
+    const user = await createUser({ roles: ["instructor"] });
+    const base = second!.base;
+    const context = await browser.newContext({ baseURL: base });
+    const page = await context.newPage();
+    await page.goto("/sign-in");
+    expect(await page.getByRole("button", { name: "Sign in with your Aldermere account" }).isVisible()).toBe(true);
+    // No password form at all: no password box, no e-mail box, no plain "Sign in" button.
+    expect(await page.locator('input[type="password"]').count()).toBe(0);
+    expect(await page.getByLabel("E-mail").count()).toBe(0);
+    expect(await page.getByRole("button", { name: "Sign in", exact: true }).count()).toBe(0);
+    expect(await seriousA11yViolations(page)).toEqual([]);
+
+    // A browser posting the form's request anyway (same origin, JSON): refused before any password check.
+    const posted = await page.evaluate(async (email) => {
+      const res = await fetch("/api/session", {
+        method: "POST",
+        headers: { "content-type": "application/json" },
+        body: JSON.stringify({ email, password: "correct horse battery staple 42" }),
+      });
+      return { status: res.status, body: await res.json() };
+    }, user.email);
+    expect(posted.status).toBe(403);
+    expect(posted.body.error.message).toMatch(/Password sign-in is turned off/);
+    expect((await context.cookies()).map((c) => c.name)).not.toContain("authjs.session-token");
+
+    const accept = await page.evaluate(async () => {
+      const res = await fetch("/api/invitations/accept", {
+        method: "POST",
+        headers: { "content-type": "application/json" },
+        body: JSON.stringify({ token: "x".repeat(43), password: "a long enough passphrase" }),
+      });
+      return res.status;
+    });
+    expect(accept).toBe(403);
+    await context.close();
+  });
 });

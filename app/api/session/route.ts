@@ -1,5 +1,6 @@
 // POST /api/session — sign in with e-mail and password (JSON); 401 for any wrong pair, 429 with
-// Retry-After when throttled, 403 when password sign-in is turned off (PASSWORD_SIGN_IN=false). DELETE /api/session — sign out (every session of the user).
+// Retry-After when throttled, 403 when password sign-in is turned off (PASSWORD_SIGN_IN=false).
+// DELETE /api/session — sign out (every session of the user; at the institution's provider too).
 import { cookies } from "next/headers";
 import { AuthError } from "next-auth";
 import { signIn, signOut, ThrottledSignin } from "@/auth";
@@ -7,6 +8,7 @@ import { KNOWN_DEVICE_COOKIE, KNOWN_DEVICE_MAX_AGE_SECONDS, knownDeviceCookieVal
 import { env } from "@/lib/env";
 import { AppError } from "@/lib/errors";
 import { PASSWORDS_OFF_MESSAGE, signInMethods } from "@/lib/auth/sign-in-methods";
+import { providerSignOutUrl } from "@/lib/auth/sso-logout";
 import { route } from "@/lib/http/route";
 import { signOutUser } from "@/lib/users/actions";
 import { signInSchema } from "@/lib/auth/schemas";
@@ -42,9 +44,12 @@ export const POST = route({ access: "public", body: signInSchema }, async ({ req
 });
 
 // Signing out ends all of the user's sessions (their tokens carry the old session version), so a
-// token re-sent by a request still in flight when the cookie was cleared is refused too.
-export const DELETE = route({ access: "public" }, async ({ user }) => {
+// token re-sent by a request still in flight when the cookie was cleared is refused too. After an
+// institutional sign-in the answer's `redirectTo` is the provider's sign-out address (RP-initiated
+// logout, lib/auth/sso-logout.ts), which returns to /sign-in; otherwise it is /sign-in itself.
+export const DELETE = route({ access: "public" }, async ({ request, user }) => {
+  const atProvider = await providerSignOutUrl(request);
   if (user) await signOutUser(user);
   await signOut({ redirect: false });
-  return { ok: true };
+  return { ok: true, redirectTo: atProvider ?? "/sign-in" };
 });

@@ -4,10 +4,13 @@
 // the provider to make the person sign in again even with a session there (prompt=login, max_age=0;
 // OIDC Core 1.0 §3.1.2.1): signing a decision needs a fresh sign-in (lib/signing/password.ts).
 // 404 when institutional sign-in is not configured.
+import { cookies } from "next/headers";
 import { signIn } from "@/auth";
 import { INSTITUTION_PROVIDER } from "@/auth.config";
 import { institutionSignInSchema } from "@/lib/auth/schemas";
 import { signInMethods } from "@/lib/auth/sign-in-methods";
+import { SSO_RETURN_COOKIE, ssoReturnCookieOptions } from "@/lib/auth/sso-return";
+import { env } from "@/lib/env";
 import { AppError, notFound } from "@/lib/errors";
 import { route } from "@/lib/http/route";
 
@@ -25,5 +28,8 @@ export const POST = route({ access: "public", body: institutionSignInSchema }, a
     console.error("[sso] starting sign-in failed:", error instanceof Error ? error.message : error);
     throw new AppError("unavailable", "Your institution's sign-in cannot be reached just now. Try again shortly.");
   }
+  // Where the callback sends the person once signed in (lib/auth/sso-return.ts says why not Auth.js's
+  // own callback-URL cookie). `from` was already reduced to a path on this site by the schema.
+  (await cookies()).set(SSO_RETURN_COOKIE, body.from, ssoReturnCookieOptions(env().APP_URL));
   return { ok: true, redirectTo: url };
 });
