@@ -137,6 +137,25 @@ function targets(f: Fixtures): Target[] {
       list: true,
     },
     { name: "dashboard", label: "dashboard `/`", user: "officer", method: "GET", path: "/", list: true },
+    // The header's search (issue 18 item 4): its plans must read the trigram indexes, not scan the
+    // permits, applications, revisions or people at 100k permits. A surname (people, holders,
+    // applicants) as an officer; a title's words as an instructor (the application read scope).
+    {
+      name: "search",
+      label: "search `GET /api/search?q=Quenby`",
+      user: "officer",
+      method: "GET",
+      path: "/api/search?q=Quenby",
+      list: true,
+    },
+    {
+      name: "search-instructor",
+      label: "search as an instructor `GET /api/search?q=gap+calib`",
+      user: "instructor",
+      method: "GET",
+      path: "/api/search?q=gap+calib",
+      list: true,
+    },
     {
       name: "permit-page",
       label: "a permit page `/permits/[id]`",

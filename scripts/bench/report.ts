@@ -41,7 +41,7 @@ export function renderMarkdown(r: BenchResult): string {
     const scans = size.plans.filter((p) => p.seqScans.length);
     out.push("");
     out.push(
-      `Plans: ${size.plans.length} SELECT statements of the lists, queue, dashboard and status page explained ` +
+      `Plans: ${size.plans.length} SELECT statements of the lists, queue, dashboard, search and status page explained ` +
         `(ANALYZE, BUFFERS); ${scans.length ? `sequential scans of large tables: ${scans.map((s) => `${s.route} → ${s.seqScans.map((t) => t.table).join(", ")}`).join("; ")}` : "no sequential scan of a table above 10 000 rows"}. ` +
         `Slowest: ${[...size.plans]
           .sort((a, b) => b.ms - a.ms)

@@ -4,7 +4,7 @@ import crypto from "node:crypto";
 import { eq, inArray, sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
-import { apparatus, applications, permits } from "@/db/schema";
+import { apparatus, applications, permits, users } from "@/db/schema";
 import { applicationReadScope, canReadApplication } from "@/lib/applications/access";
 import type { CurrentUser } from "@/lib/auth/guards";
 import { createDepartment, createUser, ownerDb, requireDatabase } from "../support/db";
@@ -30,6 +30,9 @@ async function build() {
     createUser({ roles: ["admin"], departmentId: null }),
     createUser({ roles: ["instructor"], departmentId: deptB.id }),
   ]);
+  // A disabled account whose name matches: only those who manage accounts find it (marked disabled).
+  const gone = await createUser({ roles: ["instructor"], departmentId: deptA.id, name: `Former ${token}` });
+  await getDb().update(users).set({ disabledAt: new Date() }).where(eq(users.id, gone.id));
   // A draft: its applicant's alone.
   const [draft] = await getDb()
     .insert(applications)
@@ -70,6 +73,7 @@ async function build() {
   return {
     deptA,
     users: { applicant, colleague, reviewerA, reviewerB, officer, admin, outsider },
+    gone,
     ids: {
       draft: draft.id,
       submitted: submitted.id,
@@ -136,10 +140,15 @@ describe("GET /api/search", () => {
       });
       expect({ who, apparatus: ids(results.apparatus.rows) }).toEqual({ who, apparatus: [...want.apparatus].sort() });
       // People: anyone who writes applications finds an active person by name (as when naming an
-      // operator), without the e-mail address; the admin sees the address.
-      const people = results.people.rows;
-      expect({ who, people: ids(people) }).toEqual({ who, people: [users.applicant.id] });
-      expect(people[0].email).toBe(who === "admin" ? users.applicant.email : null);
+      // operator), without the e-mail address; the admin sees the address, and disabled accounts.
+      const people = results.people.rows as { id: string; email: string | null; disabled: boolean }[];
+      expect({ who, people: ids(people) }).toEqual({
+        who,
+        people: (who === "admin" ? [users.applicant.id, world.gone.id] : [users.applicant.id]).sort(),
+      });
+      const applicantRow = people.find((p) => p.id === users.applicant.id)!;
+      expect(applicantRow.email).toBe(who === "admin" ? users.applicant.email : null);
+      if (who === "admin") expect(people.find((p) => p.id === world.gone.id)?.disabled).toBe(true);
     }
   });
 
@@ -210,8 +219,9 @@ describe("the application read rule in SQL", () => {
 describe("the trigram indexes", () => {
   // With sequential scans priced out, the planner takes an index when one matches the expression the
   // search writes; a plan without it means the index and the query have drifted apart. (The test
-  // database is too small for the planner to prefer an index on its own; docs/performance.md has the
-  // plans at 100k permits.)
+  // database is too small for the planner to prefer an index on its own; `npm run bench` explains
+  // the statements the search routes really ran — targets "search" and "search-instructor" — and
+  // fails on a sequential scan of a table above 10 000 rows at 100k permits.)
   const cases: [string, string][] = [
     ["permit_number_trgm_idx", `SELECT id FROM permit p WHERE p.number ILIKE '%${token}%'`],
     ["application_title_trgm_idx", `SELECT id FROM application a WHERE a.title ILIKE '%${token}%'`],
