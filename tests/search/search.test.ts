@@ -221,7 +221,7 @@ describe("the trigram indexes", () => {
   // search writes; a plan without it means the index and the query have drifted apart. (The test
   // database is too small for the planner to prefer an index on its own; `npm run bench` explains
   // the statements the search routes really ran — targets "search" and "search-instructor" — and
-  // fails on a sequential scan of a table above 10 000 rows at 100k permits.)
+  // reports their sequential scans of tables above 10 000 rows at 100k permits.)
   const cases: [string, string][] = [
     ["permit_number_trgm_idx", `SELECT id FROM permit p WHERE p.number ILIKE '%${token}%'`],
     ["application_title_trgm_idx", `SELECT id FROM application a WHERE a.title ILIKE '%${token}%'`],
