@@ -5,7 +5,7 @@
 // in again and approves an application with a fresh institutional sign-in instead of a password;
 // signing out ends the session at the provider too, so the next sign-in asks for the password there
 // again; a disabled account is not let back in. Then a second server with password sign-in turned off: no password
-// form, and its API refuses a password.
+// form, and its API refuses a password (also as the signature revoking a permit from an incident report).
 import { and, eq, sql } from "drizzle-orm";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -15,8 +15,8 @@ import { decide } from "@/lib/review/decide";
 import { DEFAULT_AUDIENCE_RULES, DEFAULT_CHAIN_RULES } from "@/lib/rules/chain";
 import { LOCAL_IDP_ACCOUNTS, LOCAL_IDP_PASSWORD } from "@/scripts/lib/local-idp-accounts.mjs";
 import { asActor, createSubmittedApplication, createTeam } from "../review/support";
-import { createUser, requireDatabase } from "../support/db";
-import { baseUrl, http, signIn } from "../support/http";
+import { createUser, requireDatabase, TEST_PASSWORD } from "../support/db";
+import { baseUrl, http, institutionSessionCookie, randomIp, signIn } from "../support/http";
 import { startSecondServer, type SecondServer } from "../support/second-server";
 import { launchBrowser, newContext, seriousA11yViolations } from "./support/browser";
 import { permitForApplication } from "./support/journey";
@@ -218,5 +218,60 @@ describe("password sign-in turned off (PASSWORD_SIGN_IN=false), on a second serv
     });
     expect(accept).toBe(403);
     await context.close();
+  });
+
+  it("revokes a permit from an incident report by a fresh institutional sign-in, not a password", SLOW, async () => {
+    const base = second!.base;
+    const call = async (path: string, init: { method?: string; body?: unknown; cookie: string }) => {
+      const res = await fetch(base + path, {
+        method: init.method ?? "GET",
+        headers: {
+          origin: base,
+          "x-forwarded-for": randomIp(),
+          cookie: init.cookie,
+          ...(init.body === undefined ? {} : { "content-type": "application/json" }),
+        },
+        body: init.body === undefined ? undefined : JSON.stringify(init.body),
+        redirect: "manual",
+      });
+      return { status: res.status, text: await res.text() };
+    };
+    const team = await createTeam();
+    const { application } = await createSubmittedApplication({ applicant: team.instructor, tier: 0 });
+    const permit = await permitForApplication(application.id);
+    const reported = await call("/api/incidents", {
+      method: "POST",
+      cookie: await institutionSessionCookie(team.reviewer, Date.now()),
+      body: {
+        kind: "near_miss",
+        summary: "Shorting stick left outside the barrier",
+        description: "Found on the audience side after the show.",
+        occurredAt: "2026-01-15T10:00",
+        location: "B12 lecture theatre",
+        injuries: false,
+        permitId: permit.id,
+      },
+    });
+    expect(reported.status, reported.text).toBe(201);
+    const id = JSON.parse(reported.text).incident.id as string;
+    // The officer has a Benchclear password, but passwords are off: signing needs a fresh sign-in.
+    const stale = await institutionSessionCookie(team.officer, Date.now() - 6 * 60_000);
+    const page = await call(`/incidents/${id}`, { cookie: stale });
+    expect(page.status).toBe(200);
+    expect(page.text).toContain("Confirm it is you with");
+    expect(page.text).not.toMatch(/type="password"/);
+
+    const url = `/api/incidents/${id}/revoke-permit`;
+    const body = { expectedVersion: permit.version, reason: "Shorting stick out of reach (report)." };
+    const withPassword = await call(url, { method: "POST", cookie: stale, body: { ...body, password: TEST_PASSWORD } });
+    expect(withPassword.status, withPassword.text).toBe(422);
+    expect(JSON.parse(withPassword.text).error.issues[0].path).toBe("password");
+    const ok = await call(url, {
+      method: "POST",
+      cookie: await institutionSessionCookie(team.officer, Date.now()),
+      body,
+    });
+    expect(ok.status, ok.text).toBe(200);
+    expect(JSON.parse(ok.text).permit.state).toBe("revoked");
   });
 });

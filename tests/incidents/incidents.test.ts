@@ -1,10 +1,10 @@
 import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
-import { decisions, incidents, permits } from "@/db/schema";
+import { decisions, incidents, permits, users } from "@/db/schema";
 import { wallTimeToInstant } from "@/lib/incidents/time";
-import { createDepartment, createUser, requireDatabase, TEST_PASSWORD } from "../support/db";
-import { http, signIn } from "../support/http";
+import { createDepartment, createUser, requireDatabase, TEST_PASSWORD, uniq } from "../support/db";
+import { http, institutionSessionCookie, signIn } from "../support/http";
 import { pngBytes } from "../applications/support";
 import { createSubmittedApplication, createTeam } from "../review/support";
 import { auditActions, mailsWithKey, uploadTo } from "./support";
@@ -205,6 +205,55 @@ describe("incident and near-miss reports", () => {
       reason: "Again.",
     });
     expect(again.status).toBe(409);
+  });
+
+  it("revokes from a report with a fresh institutional sign-in for an officer without a password, as the permit page does", async () => {
+    const { application } = await createSubmittedApplication({ applicant: team.instructor, tier: 0 });
+    const [permit] = await getDb()
+      .select({ id: permits.id, version: permits.version })
+      .from(permits)
+      .where(eq(permits.applicationId, application.id));
+    const created = await send("reviewer", "/api/incidents", "POST", report({ permitId: permit.id }));
+    const id = created.json?.incident.id as string;
+    // An officer who signs in only through the institution: no Benchclear password to re-ask.
+    const [ssoOfficer] = await getDb()
+      .insert(users)
+      .values({
+        email: `${uniq("sso-officer")}@aldermere.test`,
+        name: "Ilse Varga",
+        roles: ["safety_officer"],
+        oidcIssuer: process.env.OIDC_ISSUER!,
+        oidcSubject: uniq("sub"),
+      })
+      .returning();
+    const stale = await institutionSessionCookie(ssoOfficer, Date.now() - 6 * 60_000);
+    const fresh = await institutionSessionCookie(ssoOfficer, Date.now());
+
+    // The report's revoke form offers the way this person signs: the institution's button, no password.
+    const page = await http(`/incidents/${id}`, { cookie: stale });
+    expect(page.status).toBe(200);
+    expect(page.text).toContain("Confirm it is you with");
+    expect(page.text).not.toMatch(/type="password"/);
+    const freshPage = await http(`/incidents/${id}`, { cookie: fresh });
+    expect(freshPage.text).toContain("You confirmed who you are through");
+    // An officer with a password is asked for it, as before.
+    const passwordPage = await http(`/incidents/${id}`, { cookie: cookie.officer });
+    expect(passwordPage.text).toMatch(/type="password"/);
+
+    const url = `/api/incidents/${id}/revoke-permit`;
+    const body = { expectedVersion: permit.version, reason: "Barrier missing at the show (report)." };
+    const refused = await http(url, { method: "POST", cookie: stale, body });
+    expect(refused.status, refused.text).toBe(422);
+    expect(refused.json?.error.issues).toEqual([
+      { path: "password", message: expect.stringContaining("sign in again through your institution") },
+    ]);
+    const [still] = await getDb().select().from(permits).where(eq(permits.id, permit.id));
+    expect(still.state).toBe("active");
+
+    const ok = await http(url, { method: "POST", cookie: fresh, body });
+    expect(ok.status, ok.text).toBe(200);
+    expect(ok.json?.permit.state).toBe("revoked");
+    expect(await auditActions("incident", id)).toEqual(["incident.reported", "incident.permit_revoked"]);
   });
 
   it("refuses a revocation from a report by an officer who holds the permit (separation of duties)", async () => {

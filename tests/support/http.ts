@@ -71,3 +71,23 @@ export async function signIn(email: string, password = TEST_PASSWORD): Promise<s
   if (!cookie.includes("authjs.session-token")) throw new Error("no session cookie in the sign-in answer");
   return cookie;
 }
+
+/**
+ * A session cookie as the institution's sign-in leaves it (Auth.js's JWT, the same secret as the
+ * server), signed in at `authAt` (ms since epoch): what a signature checks for freshness
+ * (lib/signing/password.ts, 5 minutes). For signing tests without a browser round trip to the provider.
+ */
+export async function institutionSessionCookie(
+  user: { id: string; sessionVersion: number },
+  authAt: number,
+): Promise<string> {
+  const { encode } = await import("next-auth/jwt");
+  const name = "authjs.session-token";
+  const now = Date.now();
+  const token = await encode({
+    salt: name,
+    secret: process.env.AUTH_SECRET!,
+    token: { sub: user.id, sv: user.sessionVersion, signedInAt: now, lastSeen: now, authAt, via: "institution" },
+  });
+  return `${name}=${token}`;
+}

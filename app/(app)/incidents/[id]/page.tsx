@@ -6,6 +6,7 @@ import { Card } from "@/app/_components/card";
 import { formatDateTime, isoDate } from "@/app/_components/format";
 import { IncidentStateBadge } from "@/app/_components/incident-list";
 import { PageHeader } from "@/app/_components/page-header";
+import { RevokeForm } from "@/app/_components/permits/revoke-form";
 import { StateBadge } from "@/app/_components/state-badge";
 import { requirePageUser } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
@@ -13,7 +14,8 @@ import { isRecordId } from "@/lib/http/ids";
 import { getIncident } from "@/lib/incidents/queries";
 import { INCIDENT_KIND_LABELS, incidentRef } from "@/lib/incidents/schemas";
 import { institutionTimeZone } from "@/lib/settings/queries";
-import { PhotoUpload, RevokeFromReport, TriageForm } from "../_components/incident-actions";
+import { signingFor } from "@/lib/signing/password";
+import { PhotoUpload, TriageForm } from "../_components/incident-actions";
 
 export const metadata: Metadata = { title: "Incident report" };
 
@@ -54,7 +56,7 @@ async function load(id: string) {
 
 export default async function IncidentPage({ params, searchParams }: PageProps) {
   const { id } = await params;
-  const { found } = await load(id);
+  const { user, found } = await load(id);
   const [timeZone, query] = await Promise.all([institutionTimeZone(), searchParams]);
   const { incident, permit } = found;
   return (
@@ -163,9 +165,13 @@ export default async function IncidentPage({ params, searchParams }: PageProps) 
           {found.mayRevokePermit && permit && (
             <Card
               title={`Revoke permit ${permit.number}`}
-              description="Signed with your password, like any revocation; the holder is told by e-mail."
+              description="Signed like any revocation (your password, or a fresh sign-in through your institution); the holder is told by e-mail."
             >
-              <RevokeFromReport incidentId={incident.id} permitVersion={permit.version} />
+              <RevokeForm
+                action={`/api/incidents/${incident.id}/revoke-permit`}
+                version={permit.version}
+                signing={await signingFor(user.id, `/incidents/${incident.id}`)}
+              />
             </Card>
           )}
           <Card title="Steps">

@@ -7,17 +7,12 @@ import { useForm } from "react-hook-form";
 import type { z } from "zod";
 import { Alert } from "@/app/_components/alert";
 import { Button } from "@/app/_components/button";
-import { Field, FieldShell, controlClasses } from "@/app/_components/field";
+import { FieldShell, controlClasses } from "@/app/_components/field";
 import { ATTACHMENT_ACCEPT } from "@/lib/applications/limits";
 import { apiFetch } from "@/lib/client/api";
 import { applyApiIssues } from "@/lib/client/form-errors";
 import { uploadFile } from "@/lib/client/upload";
-import {
-  INCIDENT_STATE_LABELS,
-  incidentRevokeSchema,
-  incidentTriageSchema,
-  type IncidentStateValue,
-} from "@/lib/incidents/schemas";
+import { INCIDENT_STATE_LABELS, incidentTriageSchema, type IncidentStateValue } from "@/lib/incidents/schemas";
 
 type TriageIn = z.input<typeof incidentTriageSchema>;
 type TriageOut = z.output<typeof incidentTriageSchema>;
@@ -83,58 +78,6 @@ export function TriageForm(props: {
       </FieldShell>
       <Button type="submit" disabled={isSubmitting} aria-busy={isSubmitting || undefined}>
         {isSubmitting ? "Saving…" : "Save"}
-      </Button>
-    </form>
-  );
-}
-
-type RevokeIn = z.input<typeof incidentRevokeSchema>;
-
-/** An officer revokes the permit the report names: a reason and their password. */
-export function RevokeFromReport({ incidentId, permitVersion }: { incidentId: string; permitVersion: number }) {
-  const router = useRouter();
-  const [status, setStatus] = useState<{ tone: "success" | "error"; text: string } | null>(null);
-  const {
-    register,
-    handleSubmit,
-    setError,
-    resetField,
-    formState: { errors, isSubmitting },
-  } = useForm<RevokeIn>({
-    resolver: zodResolver(incidentRevokeSchema),
-    defaultValues: { expectedVersion: permitVersion, reason: "", password: "" },
-  });
-  const onSubmit = handleSubmit(async (values) => {
-    setStatus(null);
-    try {
-      await apiFetch(`/api/incidents/${incidentId}/revoke-permit`, { body: values });
-      setStatus({ tone: "success", text: "The permit is revoked. The holder is told by e-mail." });
-      router.refresh();
-    } catch (e) {
-      if (!applyApiIssues(e, setError, { fields: ["reason", "password"] })) {
-        setStatus({ tone: "error", text: e instanceof Error ? e.message : "The permit was not revoked." });
-      }
-    } finally {
-      resetField("password");
-    }
-  });
-  return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-3">
-      <div aria-live="polite">{status && <Alert tone={status.tone}>{status.text}</Alert>}</div>
-      <FieldShell label="Reason" required error={errors.reason?.message}>
-        {(a11y) => <textarea {...a11y} rows={3} className={controlClasses} {...register("reason")} />}
-      </FieldShell>
-      <Field
-        label="Your password"
-        type="password"
-        autoComplete="current-password"
-        required
-        {...register("password")}
-        error={errors.password?.message}
-        hint="Revoking is signed: it needs your password again."
-      />
-      <Button type="submit" variant="danger" disabled={isSubmitting} aria-busy={isSubmitting || undefined}>
-        {isSubmitting ? "Revoking…" : "Revoke the permit"}
       </Button>
     </form>
   );

@@ -8,6 +8,7 @@ import { ButtonLink } from "@/app/_components/button";
 import { Card } from "@/app/_components/card";
 import { AboutFigures } from "@/app/_components/about-figures";
 import { formatDate, formatDateTime, isoDate } from "@/app/_components/format";
+import { RevokeForm } from "@/app/_components/permits/revoke-form";
 import { PageHeader } from "@/app/_components/page-header";
 import { Stat, StatList } from "@/app/_components/stat";
 import { StateBadge } from "@/app/_components/state-badge";
@@ -24,7 +25,7 @@ import { AUDIENCE_LABELS, EVENT_KIND_LABELS, type ApplicationContent } from "@/l
 import { SignatureList } from "@/app/_components/signature-list";
 import { ApparatusChangedBanner } from "@/app/_components/rereview/apparatus-changed-banner";
 import { TrainingLapseFlag } from "@/app/_components/training/training-lapse-flag";
-import { RenewButton, RevokeForm } from "./_components/permit-actions";
+import { RenewButton } from "./_components/permit-actions";
 import { signingFor } from "@/lib/signing/password";
 import { PreUseCheckLog } from "./_components/pre-use-check-log";
 import { PermitIncidents } from "./_components/permit-incidents";
@@ -243,7 +244,7 @@ export default async function PermitPage({ params }: { params: Promise<{ id: str
           {mayRevoke && (
             <Card title="Revoke" description="The holder and the people named on the permit are told by e-mail.">
               <RevokeForm
-                permitId={permit.id}
+                action={`/api/permits/${permit.id}/revoke`}
                 version={permit.version}
                 signing={await signingFor(user.id, `/permits/${permit.id}`)}
               />
