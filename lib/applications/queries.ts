@@ -136,6 +136,7 @@ export async function getDraftForEdit(user: CurrentUser, id: string) {
       id: applications.id,
       seq: applications.seq,
       applicantId: applications.applicantId,
+      departmentId: applications.departmentId,
       state: applications.state,
       version: applications.version,
       draft: applications.draft,
@@ -160,6 +161,7 @@ export async function getDraftForEdit(user: CurrentUser, id: string) {
   return {
     id: row.id,
     seq: row.seq,
+    departmentId: row.departmentId,
     state: row.state,
     editable: isEditable(row.state),
     version: row.version,

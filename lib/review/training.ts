@@ -3,7 +3,13 @@ import { asc, eq } from "drizzle-orm";
 import { db } from "@/db";
 import { trainingExceptions, type TrainingException } from "@/db/schema";
 import type { DbOrTx } from "@/lib/audit";
+import { getDraftForEdit } from "@/lib/applications/queries";
+import type { CurrentUser } from "@/lib/auth/guards";
 import { conflict } from "@/lib/errors";
+import { defaultValidity, eventDaysOf, todayIn } from "@/lib/permits/dates";
+import { currentChainRules } from "@/lib/rules/queries";
+import { tierChain } from "@/lib/rules/chain";
+import { institutionTimeZone } from "@/lib/settings/queries";
 import { operatorsOf, operatorTraining } from "@/lib/training/queries";
 import {
   describeGap,
@@ -91,4 +97,36 @@ export async function assertOperatorsTrained(
 ): Promise<void> {
   const check = await trainingCheck(application, revision, throughDay, tx);
   if (check.open.length > 0) throw conflict(trainingRefusalMessage(check.open, throughDay));
+}
+
+export type SubmissionTrainingCheck = {
+  /** The draft's tier as last saved (null while the set-up does not assess). */
+  tier: number | null;
+  /** The permit's proposed last day: the event's last day, cut to the tier's longest validity. */
+  throughDay: string | null;
+  operators: OperatorTraining[];
+};
+
+/**
+ * The same check at submission (issue 17), for the applicant's own draft as last saved: its tier,
+ * its named operators and the permit's proposed last day (defaultValidity, as the approver's panel
+ * proposes it), in the application's department. Shown beside each operator on the form's last step;
+ * it decides nothing — the final approval does (assertOperatorsTrained).
+ */
+export async function submissionTrainingCheck(
+  user: CurrentUser,
+  applicationId: string,
+): Promise<SubmissionTrainingCheck> {
+  const draft = await getDraftForEdit(user, applicationId);
+  if (draft.tier === null || draft.tier < 0 || draft.tier > 4) return { tier: null, throughDay: null, operators: [] };
+  const [{ rules }, timeZone] = await Promise.all([currentChainRules(), institutionTimeZone()]);
+  const chain = tierChain(rules, draft.tier);
+  const throughDay = defaultValidity(eventDaysOf(draft.draft), chain.validityDays, todayIn(timeZone)).validTo;
+  const operators = await operatorTraining({
+    tier: draft.tier,
+    departmentId: draft.departmentId,
+    operators: operatorsOf(draft.draft).filter((o) => o.userId || o.name.trim()),
+    throughDay,
+  });
+  return { tier: draft.tier, throughDay, operators };
 }

@@ -15,6 +15,7 @@ import { REREVIEW_ROWS } from "./matrix-rows/rereview";
 import { RULES_SEARCH_ROWS } from "./matrix-rows/rules-search";
 import { TRAINING_ROWS } from "./matrix-rows/training";
 import { EXPORT_ROWS } from "./matrix-rows/exports";
+import { SUBMISSION_TRAINING_ROWS } from "./matrix-rows/submission-training";
 
 export type { MatrixRow, Principal, Expectation, MatrixContext } from "./matrix-kit";
 
@@ -33,4 +34,5 @@ export const MATRIX = [
   ...RULES_SEARCH_ROWS,
   ...TRAINING_ROWS,
   ...EXPORT_ROWS,
+  ...SUBMISSION_TRAINING_ROWS,
 ];

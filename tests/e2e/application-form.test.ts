@@ -2,10 +2,10 @@ import { desc, eq } from "drizzle-orm";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
-import { applicationRevisions, applications } from "@/db/schema";
+import { applicationRevisions, applications, courseTypes } from "@/db/schema";
 import { formatQuantity, type Assessment } from "@/lib/hazard";
 import { isoDayFromNow, pngBytes } from "../applications/support";
-import { createRoleSet, requireDatabase, TEST_PASSWORD } from "../support/db";
+import { createRoleSet, requireDatabase, TEST_PASSWORD, uniq } from "../support/db";
 import { baseUrl, http, signIn } from "../support/http";
 import { launchBrowser, newContext, seriousA11yViolations, signInWithForm } from "./support/browser";
 
@@ -42,6 +42,11 @@ describe("the six-step application form, in a real browser", () => {
     { timeout: 240_000 },
     async () => {
       const set = await createRoleSet();
+      // A course tier 2 requires in this department only (issue 17): the named operator has no record.
+      const course = uniq("Capacitor-bank operator");
+      await getDb()
+        .insert(courseTypes)
+        .values({ name: course, validityMonths: 24, minTier: 2, departmentId: set.dept.id });
       const context = await newContext(browser);
       const page = await context.newPage();
       await signInWithForm(page, set.instructor.email, TEST_PASSWORD);
@@ -179,6 +184,10 @@ describe("the six-step application form, in a real browser", () => {
       await expect.poll(() => stepHeading(page)).toBe("Step 6 of 6: Review and attest");
       expect(await page.locator("dd", { hasText: "Spark gap and Leyden jar lecture" }).isVisible()).toBe(true);
       expect(await page.getByText("bench.png").isVisible()).toBe(true);
+      // Before submitting, the server's training check beside the operator: no account, no record.
+      const training = page.getByTestId("submission-training");
+      await expect.poll(() => training.textContent()).toContain("Opal Fenwick");
+      expect(await training.textContent()).toContain(`${course}: not recorded`);
       await page.getByRole("button", { name: "Submit for review" }).click();
       await expect.poll(() => page.getByText("Confirm the attestation to submit.").isVisible()).toBe(true);
       await page.getByLabel(/I confirm that this application describes the set-up/).check();

@@ -5,7 +5,7 @@ import { auditEvents, permits, trainingExceptions } from "@/db/schema";
 import { trainingExceptionSealMatches } from "@/lib/records/training-seal";
 import { decide } from "@/lib/review/decide";
 import { approvalRequirements, audienceFactsOf, DEFAULT_CHAIN_RULES } from "@/lib/rules/chain";
-import { pngBytes } from "../applications/support";
+import { completeDraft, pngBytes } from "../applications/support";
 import { asActor, createSubmittedApplication, createTeam, currentVersion, isoDayFromNow } from "../review/support";
 import { createUser, requireDatabase, TEST_PASSWORD, uniq } from "../support/db";
 import { baseUrl, http, randomIp, signIn } from "../support/http";
@@ -232,6 +232,54 @@ describe("training records", () => {
     const approved = await post(url, "officer", await approveBody(application.id, content));
     expect(approved.status, approved.text).toBe(201);
     expect(approved.json?.permit.number).toMatch(/^[A-Z0-9]+-\d{4}-\d{4}$/);
+  });
+
+  it("shows each named operator's lapsed or missing course on the form's last step, and to the reviewer after submission", async () => {
+    const lapsing = await createUser({ roles: ["instructor"], departmentId: team.dept.id, name: "Petra Lindqvist" });
+    const current = await createUser({ roles: ["instructor"], departmentId: team.dept.id, name: "Tomas Brightwater" });
+    const course = await courseType(2, 24);
+    // Lapses three days from now (24 calendar months after completion), before the event's last day.
+    await record(lapsing.id, course.id, dayFromToday(-2, 3));
+    await record(current.id, course.id, dayFromToday(0, -1));
+    const draft = completeDraft(team.instructor);
+    draft.event.operators = [
+      { userId: lapsing.id, name: lapsing.name, trained: true },
+      { userId: current.id, name: current.name, trained: true },
+      { userId: null, name: "Opal Fenwick", trained: true },
+    ];
+    const created = await post("/api/applications", "instructor", { draft });
+    expect(created.status, created.text).toBe(201);
+    const id = created.json!.application.id as string;
+
+    // The form's last step asks the server; the check runs on the draft as saved.
+    const res = await http(`/api/applications/${id}/training`, { cookie: cookie.instructor });
+    expect(res.status, res.text).toBe(200);
+    const check = res.json!.training as {
+      tier: number;
+      throughDay: string;
+      operators: { operator: string; courses: { courseTypeId: string; status: string; lapsesOn: string | null }[] }[];
+    };
+    // 4.7 nF at 30 kV stores 2.1 J: tier 2 (tests/applications/support.ts, hazard-model.md's table).
+    expect(check.tier).toBe(2);
+    // The permit's proposed last day is the event's last day (eight days from now), inside tier 2's 180 days.
+    expect(check.throughDay).toBe(completeDraft(team.instructor).event.lastDay);
+    const ours = (name: string) =>
+      check.operators.find((o) => o.operator === name)!.courses.find((c) => c.courseTypeId === course.id);
+    expect(ours(lapsing.name)).toMatchObject({ status: "lapses", lapsesOn: dayFromToday(0, 3) });
+    expect(ours(current.name)).toMatchObject({ status: "current", lapsesOn: dayFromToday(2, -1) });
+    expect(ours("Opal Fenwick")).toMatchObject({ status: "missing", lapsesOn: null });
+    // Only the applicant's own draft.
+    expect((await http(`/api/applications/${id}/training`, { cookie: cookie.other })).status).toBe(404);
+
+    // After submission the reviewer sees the same beside each person.
+    const submitted = await post(`/api/applications/${id}/submit`, "instructor", {
+      expectedVersion: created.json!.application.version,
+    });
+    expect(submitted.status, submitted.text).toBe(200);
+    const reviewerPage = await http(`/applications/${id}`, { cookie: await signIn(team.reviewer.email) });
+    expect(reviewerPage.status).toBe(200);
+    expect(reviewerPage.text).toContain(`${course.name}: lapses on ${dayFromToday(0, 3)}`);
+    expect(reviewerPage.text).toContain(`${course.name}: not recorded`);
   });
 
   it("allows the approval after the approver records a signed exception with a reason", async () => {

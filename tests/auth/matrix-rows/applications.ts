@@ -46,7 +46,7 @@ async function instructorsApparatus(
   return { apparatusId: row.id };
 }
 
-async function instructorsDraft(ctx: MatrixContext) {
+export async function instructorsDraft(ctx: MatrixContext) {
   const instructor = ctx.users.instructor;
   const draft = completeDraft(
     { id: instructor.id, name: "Matrix Instructor" },

@@ -32,6 +32,7 @@ import { announceSubmitted } from "./form-subtitle";
 import { ResultStep } from "./result-step";
 import { ReturnComments, type ReturnComment } from "./return-comments";
 import { ReviewStep } from "./review-step";
+import type { SubmissionTraining } from "./submission-training";
 import { stepResolver } from "./step-resolver";
 import { statusText, useAutosave } from "./use-autosave";
 
@@ -203,6 +204,29 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
     () => (step === 6 ? draftToContent(draftNow, { rules, attachments }).issues : []),
     [step, draftNow, rules, attachments],
   );
+
+  // On the last step, each named operator's training as the server checks it on the saved draft
+  // (GET /api/applications/[id]/training): saved first, so the check sees what is on screen. Shown
+  // once it answers (the last answer stays while a later visit to the step asks again).
+  const [training, setTraining] = useState<SubmissionTraining | undefined>(undefined);
+  useEffect(() => {
+    if (step !== 6) return;
+    let current = true;
+    void (async () => {
+      await saver.flush();
+      if (!saver.id) return;
+      try {
+        const res = await apiFetch<{ training: SubmissionTraining }>(`/api/applications/${saver.id}/training`);
+        if (current) setTraining(res.training);
+      } catch {
+        // Shown after submission on the application's page as well; a failed look-up here only hides it.
+        if (current) setTraining(undefined);
+      }
+    })();
+    return () => {
+      current = false;
+    };
+  }, [step, saver]);
 
   const submit = (event: React.FormEvent) => form.handleSubmit(submitNow)(event);
 
@@ -424,6 +448,7 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
                 required={required}
                 attachments={attachments}
                 issues={outstanding}
+                training={training}
                 onGoTo={(s) => void goTo(s)}
               />
             )}

@@ -19,6 +19,7 @@ import {
 } from "@/lib/applications/schemas";
 import { controlText } from "./control-text";
 import { messageAt } from "./errors";
+import { SubmissionTrainingList, type SubmissionTraining } from "./submission-training";
 
 type ReviewStepProps = {
   live: LiveAssessment;
@@ -26,6 +27,8 @@ type ReviewStepProps = {
   attachments: readonly AttachmentRef[];
   /** What still stands between the draft and a submission, from the same check the server runs. */
   issues: readonly FieldIssue[];
+  /** Each named operator's training as the server checked it (undefined until it answers). */
+  training?: SubmissionTraining;
   onGoTo: (step: FormStep) => void;
 };
 
@@ -44,7 +47,7 @@ function Row({ label, children }: { label: string; children: React.ReactNode }) 
   );
 }
 
-export function ReviewStep({ live, required, attachments, issues, onGoTo }: ReviewStepProps) {
+export function ReviewStep({ live, required, attachments, issues, training, onGoTo }: ReviewStepProps) {
   const { control, register } = useFormContext<ApplicationDraft>();
   const { errors } = useFormState({ control });
   const draft = useWatch({ control }) as ApplicationDraft;
@@ -94,6 +97,11 @@ export function ReviewStep({ live, required, attachments, issues, onGoTo }: Revi
               .filter(Boolean)
               .join(", ")}
           </Row>
+          {training !== undefined && (
+            <Row label="Operators' training">
+              <SubmissionTrainingList check={training} />
+            </Row>
+          )}
         </dl>
       </section>
 
