@@ -1,6 +1,7 @@
 import NextAuth from "next-auth";
 import { NextResponse, type NextFetchEvent, type NextRequest } from "next/server";
 import { ASKED_PATH_HEADER, authConfig } from "./auth.config";
+import { SESSION_HEADER, sessionHeaderValue } from "@/lib/auth/request-session";
 import { countAtVerifyGate, VERIFY_HEADERS, VERIFY_PATH_PREFIX } from "@/lib/verify/gate";
 
 // Runs before every page request. It does three things only: sends signed-out visitors of signed-in
@@ -42,6 +43,8 @@ function withSecurityHeaders(request: NextRequest, extra?: Headers): NextRespons
   const headers = new Headers(request.headers);
   headers.set("x-nonce", nonce);
   headers.set("content-security-policy", csp);
+  // Never a client's own: set from what Auth.js read below, or removed (lib/auth/request-session.ts).
+  headers.delete(SESSION_HEADER);
   extra?.forEach((value, key) => headers.set(key, value));
   const response = NextResponse.next({ request: { headers } });
   response.headers.set("Content-Security-Policy", csp);
@@ -61,8 +64,15 @@ const withSession = auth(async (request) => {
   }
   // The page asked for, for the page's own guard: a session the proxy let through can still be
   // refused there (a bumped session version, a disabled account), and the sign-in it sends the person
-  // to should lead back here, query included (lib/auth/guards.ts requirePageUser).
-  return withSecurityHeaders(request, new Headers({ [ASKED_PATH_HEADER]: asked }));
+  // to should lead back here, query included (lib/auth/guards.ts requirePageUser). And the session
+  // Auth.js just read, for the page or route handler (lib/auth/request-session.ts): it is not
+  // decrypted a second time there.
+  const user = request.auth?.user?.id ? request.auth : null;
+  const extra = new Headers({
+    [ASKED_PATH_HEADER]: asked,
+    [SESSION_HEADER]: sessionHeaderValue(user ? { id: user.user.id, sv: user.sv, authAt: user.authAt } : null),
+  });
+  return withSecurityHeaders(request, extra);
 }) as unknown as (request: NextRequest, event: NextFetchEvent) => Promise<Response>;
 
 export default async function proxy(request: NextRequest, event: NextFetchEvent) {

@@ -10,6 +10,7 @@ import { users } from "@/db/schema";
 import { AppError, forbidden, unauthenticated } from "@/lib/errors";
 import { currentUserColumns, type CurrentUser } from "./current-user";
 import { rolesHave, type Permission } from "./permissions";
+import { sessionFromProxy, type RequestSession } from "./request-session";
 
 // The data-access gate. Every route handler, server action and server component that reads or
 // writes data calls one of these. proxy.ts only redirects signed-out visitors and is never relied on.
@@ -17,12 +18,23 @@ import { rolesHave, type Permission } from "./permissions";
 export type { CurrentUser };
 
 /**
+ * This request's session, read once: what proxy.ts read with Auth.js (lib/auth/request-session.ts),
+ * or, for a request the proxy did not see, Auth.js reading the cookie here.
+ */
+const requestSession = cache(async (): Promise<RequestSession | null> => {
+  const fromProxy = sessionFromProxy(await headers());
+  if (fromProxy !== undefined) return fromProxy;
+  const session = await auth();
+  return session?.user?.id ? { id: session.user.id, sv: session.sv, authAt: session.authAt } : null;
+});
+
+/**
  * The signed-in user, read from the database on every request (cached for the request), so that a
  * disabled account, a changed role or a bumped session version takes effect on the next request.
  */
 export const getCurrentUser = cache(async (): Promise<CurrentUser | null> => {
-  const session = await auth();
-  const id = session?.user?.id;
+  const session = await requestSession();
+  const id = session?.id;
   if (!id || !/^[0-9a-f-]{36}$/i.test(id)) return null;
   const sessionVersion = session?.sv;
   const [row] = await db
@@ -46,7 +58,7 @@ export const getCurrentUser = cache(async (): Promise<CurrentUser | null> => {
  * recent one (lib/signing/password.ts).
  */
 export const currentSessionAuthAt = cache(async (): Promise<number | null> => {
-  const session = await auth();
+  const session = await requestSession();
   return typeof session?.authAt === "number" ? session.authAt : null;
 });
 

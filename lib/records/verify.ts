@@ -137,12 +137,14 @@ function decisionProblem(
   revision: { contentHash: string; content: unknown; assessment: unknown } | undefined,
   permit: { validFrom: string; validTo: string; validityReason: string | null; conditions: string[] } | undefined,
   key: string,
+  /** Whether the revision's content is known to match its hash already (checked once per permit). */
+  revisionIntact?: boolean,
 ): string | null {
   if (!sealMatches(d, key))
     return "its seal does not match what it says (kind, signer, time, conditions or validity changed, or it was not made by Benchclear).";
   if (!revision) return "the revision it signs is missing.";
   if (revision.contentHash !== d.contentHash) return "it signs a hash that is not its revision's.";
-  if (revisionHash(revision.content, revision.assessment) !== revision.contentHash) {
+  if (!revisionIntact && revisionHash(revision.content, revision.assessment) !== revision.contentHash) {
     return "the content of the revision it signs has changed since it was signed.";
   }
   if (d.kind === "approve" && permit) {
@@ -224,8 +226,9 @@ export async function permitSeals(db: DbOrTx, permitId: string, key = sealKey())
   if (revisionHash(revision.content, revision.assessment) !== revision.contentHash) {
     return { ok: false, signatures: signed.length, reason: "The permit's content has changed since it was signed." };
   }
+  // The content hash was checked just above: each signature is not made to hash the content again.
   for (const d of signed) {
-    const problem = decisionProblem(d, revision, row.permit, key);
+    const problem = decisionProblem(d, revision, row.permit, key, true);
     if (problem)
       return { ok: false, signatures: signed.length, reason: `A signature (${d.kind}, ${d.signerName}): ${problem}` };
   }

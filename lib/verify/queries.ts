@@ -44,6 +44,28 @@ export type PublicPermit = {
 /** The signatures a permit carries: the chain that approved its revision, and a revocation. */
 const SIGNATURE_KINDS: DecisionKind[] = ["recommend", "approve", "revoke"];
 
+// The seals' verdict per permit, kept a short while. Re-checking the seals costs two more round trips
+// and hashing the signed content (the larger part of this page's own work, docs/performance.md), and
+// what they cover changes only with a new signature, a new revision, a revocation or a change of the
+// permit's terms, all of which are part of the key below, read live on every look-up; so a look-up
+// re-checks them when any of those moved, and at least every SEAL_RECHECK_MS in any case, so that a
+// change made behind the application's back (straight in the database) shows within that time. Only
+// a verdict that checks out is kept: a broken one is re-checked on every look-up.
+const SEAL_RECHECK_MS = 60_000; // ms
+const SEAL_CACHE_MAX = 5_000; // permits
+const sealVerdicts = new Map<string, { fingerprint: string; at: number }>();
+
+async function sealsCheckOut(permitId: string, fingerprint: string, nowMs = Date.now()): Promise<boolean> {
+  const kept = sealVerdicts.get(permitId);
+  if (kept && kept.fingerprint === fingerprint && nowMs - kept.at < SEAL_RECHECK_MS) return true;
+  const seals = await permitSeals(db, permitId);
+  sealVerdicts.delete(permitId);
+  if (!seals.ok) return false;
+  if (sealVerdicts.size >= SEAL_CACHE_MAX) sealVerdicts.delete(sealVerdicts.keys().next().value!);
+  sealVerdicts.set(permitId, { fingerprint, at: nowMs });
+  return true;
+}
+
 /** The permit behind a verification code, or null for an unknown or malformed code (told apart nowhere). */
 export async function findPublicPermit(code: string, now: Date = new Date()): Promise<PublicPermit | null> {
   if (!isWellFormedCode(code)) return null;
@@ -52,6 +74,9 @@ export async function findPublicPermit(code: string, now: Date = new Date()): Pr
   const [row] = await db
     .select({
       id: permits.id,
+      revisionId: permits.revisionId,
+      conditions: permits.conditions,
+      validityReason: permits.validityReason,
       number: permits.number,
       state: permits.state,
       tier: permits.tier,
@@ -85,9 +110,19 @@ export async function findPublicPermit(code: string, now: Date = new Date()): Pr
 
   const timeZone = row.timeZone || DEFAULT_TIME_ZONE;
   const signers = row.signers;
-  // The seals, the signed content and the permit's terms, re-checked on every look-up (lib/records):
-  // the page says the signatures check out only when they do.
-  const seals = await permitSeals(db, row.id);
+  // The seals, the signed content and the permit's terms, re-checked (lib/records) whenever anything
+  // they cover moved (sealsCheckOut above): the page says the signatures check out only when they do.
+  const fingerprint = JSON.stringify([
+    row.revisionId,
+    row.state,
+    row.validFrom,
+    row.validTo,
+    row.validityReason,
+    row.conditions,
+    row.revokedAt?.toISOString() ?? null,
+    signers,
+  ]);
+  const signaturesCheckOut = await sealsCheckOut(row.id, fingerprint);
   const today = todayIn(timeZone, now);
   const tier = row.tier as Tier;
   return {
@@ -109,6 +144,6 @@ export async function findPublicPermit(code: string, now: Date = new Date()): Pr
     tierLabel: TIER_LABELS[tier],
     revokedOn: row.revokedAt ? todayIn(timeZone, row.revokedAt) : null,
     signers,
-    signaturesCheckOut: seals.ok,
+    signaturesCheckOut,
   };
 }

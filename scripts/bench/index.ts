@@ -3,6 +3,10 @@
 //   npm run bench                          1k, 10k and 100k permits, 10 s per route and side
 //   npm run bench -- --sizes=1000 --duration=1 --smoke   the quick run `npm test` does
 //   options: --sizes=a,b,c  --duration=seconds  --connections=16  --no-pdf  --no-js  --out=docs/performance.md
+//            --routes=status,permits   measure only these routes (by name: status, permits, permits-tier,
+//                        permits-page400, queue, dashboard, permit-page, pdf, assess, autosave)
+//            --keep-db   keep each size's database (benchclear_bench_<size>) for EXPLAIN by hand
+//            --no-build  serve the build in NEXT_DIST_DIR (default .next) as it is, without rebuilding
 //            --profile   the app server writes a V8 CPU profile (node --cpu-prof) per size; the run
 //                        prints where its time went (scripts/bench/profile.ts) and keeps the file
 //
@@ -59,6 +63,9 @@ const CONNECTIONS = Number(args.get("connections") ?? 16);
 const WITH_PDF = !args.has("no-pdf");
 const WITH_JS = !args.has("no-js");
 const PROFILE = args.has("profile");
+const ROUTES = args.get("routes")?.split(",") ?? null;
+const NO_BUILD = args.has("no-build");
+const KEEP_DB = args.has("keep-db");
 const OUT = args.get("out") ?? (SMOKE ? null : "docs/performance.md");
 // The bench's own ports: TEST_PORT + 700 for the app, + 10 for the baseline (4080/4090 for 3380).
 const APP_PORT = Number(process.env.BENCH_APP_PORT ?? Number(process.env.TEST_PORT ?? 3300) + 700);
@@ -240,6 +247,39 @@ function treeRssMb(pid: number): number {
   return round(total / 1024, 0);
 }
 
+/**
+ * CPU time (ms, user + system) a process and its descendants have used, from /proc: divided by the
+ * requests served, it is the cost of one request, which the machine's other load does not inflate
+ * the way it inflates latencies (a busy machine delays a request; it does not make it cost more).
+ */
+function treeCpuMs(pid: number): number {
+  const children = new Map<number, number[]>();
+  const cpu = new Map<number, number>();
+  for (const entry of fs.readdirSync("/proc")) {
+    if (!/^\d+$/.test(entry)) continue;
+    try {
+      const stat = fs.readFileSync(`/proc/${entry}/stat`, "utf8");
+      const fields = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
+      // Fields 4 (ppid), 14 (utime) and 15 (stime) of proc(5), counted from the state (field 3).
+      const ppid = Number(fields[1]);
+      children.set(ppid, [...(children.get(ppid) ?? []), Number(entry)]);
+      cpu.set(Number(entry), Number(fields[11]) + Number(fields[12]));
+    } catch {
+      // gone
+    }
+  }
+  let ticks = 0;
+  const stack = [pid];
+  while (stack.length) {
+    const p = stack.pop()!;
+    ticks += cpu.get(p) ?? 0;
+    stack.push(...(children.get(p) ?? []));
+  }
+  return (ticks * 1000) / CLOCK_TICKS_PER_S;
+}
+// USER_HZ: 100 on Linux on every architecture Node.js runs on (sysconf(_SC_CLK_TCK)).
+const CLOCK_TICKS_PER_S = 100;
+
 // ---------------------------------------------------------------------------------------------
 // The app under test
 
@@ -419,6 +459,8 @@ type Measure = {
   requests: number;
   errors: number;
   socketErrors: number;
+  /** The server's CPU time per answered request (ms, user + system, its process tree; see treeCpuMs). */
+  cpuMsPerRequest?: number;
 };
 
 let clientCounter = 0;
@@ -433,7 +475,9 @@ async function load(
   headers: Record<string, string>,
   f: Fixtures,
   forApp: boolean,
+  serverPid?: number,
 ): Promise<Measure> {
+  const cpuBefore = serverPid ? treeCpuMs(serverPid) : NaN;
   const times: number[] = [];
   let nextDraft = 0;
   type Ctx = { draft?: string; version?: number };
@@ -474,6 +518,7 @@ async function load(
   });
   instance.on("response", (_client: unknown, _status: number, _bytes: number, ms: number) => times.push(ms));
   const result = await instance;
+  const cpuMs = serverPid ? treeCpuMs(serverPid) - cpuBefore : NaN;
   times.sort((a, b) => a - b);
   return {
     rps: round(result.requests.total / DURATION_S, 0),
@@ -486,6 +531,7 @@ async function load(
     // in flight, which the server then sees reset; that is the harness, not an answer.
     errors: result.timeouts + result.non2xx,
     socketErrors: result.errors,
+    cpuMsPerRequest: result.requests.total > 0 ? round(cpuMs / result.requests.total, 2) : undefined,
   };
 }
 
@@ -699,7 +745,7 @@ async function main() {
   };
   try {
     await pgUp(env);
-    if (!SMOKE) ensureBuild({ ...(process.env as Env), ...env });
+    if (!SMOKE && !NO_BUILD) ensureBuild({ ...(process.env as Env), ...env }, process.env.NEXT_DIST_DIR ?? ".next");
     const base = `${DB_PREFIX}_base`;
     const baseInfo = ensureBase(env, base);
     console.log(baseInfo.reused ? "▸ base database reused" : `▸ base database made in ${round(baseInfo.seconds)} s`);
@@ -710,7 +756,7 @@ async function main() {
       const dataset = makeDataset(env, base, database, n);
       console.log(`  ${JSON.stringify(dataset.counts)} in ${round(dataset.seconds)} s`);
       const f = fixtures(env, database);
-      const list = targets(f);
+      const list = targets(f).filter((t) => !ROUTES || ROUTES.includes(t.name));
       const profileDir = PROFILE ? path.join(BENCH_DIR, `profile-${n}`) : undefined;
       if (profileDir) fs.rmSync(profileDir, { recursive: true, force: true });
       const app = await startApp(env, database, profileDir);
@@ -738,19 +784,21 @@ async function main() {
       const routes: RouteResult[] = [];
       for (const t of list) {
         resetDrafts(env, database, f);
-        const appM = await load(app.url, t, requestHeaders(app, t), f, true);
+        const appM = await load(app.url, t, requestHeaders(app, t), f, true, app.child.pid);
         const baseM = await load(
           `http://127.0.0.1:${BASE_PORT}`,
           { ...t, path: `/${t.name}` },
           requestHeaders(app, t),
           f,
           false,
+          baseline.pid,
         );
         const ratio = baseM.rps > 0 ? round(appM.rps / baseM.rps, 3) : 0;
         routes.push({ name: t.name, label: t.label, list: Boolean(t.list), app: appM, baseline: baseM, ratio });
         console.log(
           `  ${t.name.padEnd(16)} app ${String(appM.rps).padStart(6)} req/s p50 ${appM.p50} ms p95 ${appM.p95} ms err ${appM.errors} reset ${appM.socketErrors}` +
-            ` · baseline ${String(baseM.rps).padStart(6)} req/s p95 ${baseM.p95} ms err ${baseM.errors} · ratio ${ratio}`,
+            ` · baseline ${String(baseM.rps).padStart(6)} req/s p95 ${baseM.p95} ms err ${baseM.errors} · ratio ${ratio}` +
+            ` · CPU per request app ${appM.cpuMsPerRequest} ms, baseline ${baseM.cpuMsPerRequest} ms`,
         );
         if (appM.errors) result.failures.push(`${n} permits: ${t.name} had ${appM.errors} errors on the app`);
         if (baseM.errors) result.failures.push(`${n} permits: ${t.name} had ${baseM.errors} errors on the baseline`);
@@ -780,7 +828,7 @@ async function main() {
           `\n${n} permits: ${profileMarkdown(summarizeProfile(profileFile))}\n(${path.relative(root, profileFile)})\n`,
         );
       else if (profileDir) console.log(`${n} permits: the app server wrote no CPU profile in ${profileDir}`);
-      if (!SMOKE) psql(env, `DROP DATABASE IF EXISTS ${database} WITH (FORCE)`);
+      if (!SMOKE && !KEEP_DB) psql(env, `DROP DATABASE IF EXISTS ${database} WITH (FORCE)`);
     }
     if (WITH_PDF) result.pdf = pdfFigures(SMOKE ? 5 : 200);
   } finally {

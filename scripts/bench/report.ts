@@ -30,14 +30,21 @@ export function renderMarkdown(r: BenchResult): string {
         `Server resident memory: ${size.rssIdleMb} MB idle (after one request per route), ${size.rssAfterMb} MB after the load.`,
     );
     out.push("");
-    out.push("| route | app req/s | p50 | p95 | p99 | errors | baseline req/s | p50 | p95 | p99 | errors | ratio |");
-    out.push("| --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |");
+    out.push(
+      "| route | app req/s | p50 | p95 | p99 | errors | CPU ms/req | baseline req/s | p50 | p95 | p99 | errors | CPU ms/req | ratio |",
+    );
+    out.push("| --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |");
+    const cpu = (x?: number) => (x === undefined || !Number.isFinite(x) ? "—" : String(x));
     for (const x of size.routes) {
       out.push(
-        `| ${x.label} | ${num(x.app.rps)} | ${x.app.p50} | ${x.app.p95} | ${x.app.p99} | ${x.app.errors} | ` +
-          `${num(x.baseline.rps)} | ${x.baseline.p50} | ${x.baseline.p95} | ${x.baseline.p99} | ${x.baseline.errors} | ${x.ratio} |`,
+        `| ${x.label} | ${num(x.app.rps)} | ${x.app.p50} | ${x.app.p95} | ${x.app.p99} | ${x.app.errors} | ${cpu(x.app.cpuMsPerRequest)} | ` +
+          `${num(x.baseline.rps)} | ${x.baseline.p50} | ${x.baseline.p95} | ${x.baseline.p99} | ${x.baseline.errors} | ${cpu(x.baseline.cpuMsPerRequest)} | ${x.ratio} |`,
       );
     }
+    out.push("");
+    out.push(
+      "CPU ms/req: the server's CPU time (user + system, its process tree, from /proc) over the run divided by the requests it answered; the machine's other load delays requests but does not make them cost more, so this column moves less than req/s on a busy machine.",
+    );
     const scans = size.plans.filter((p) => p.seqScans.length);
     out.push("");
     out.push(
