@@ -5,7 +5,7 @@ import { users } from "@/db/schema";
 import { addressBucket } from "@/lib/http/client-ip";
 import { attempt, clear, peek, RULES } from "@/lib/ratelimit";
 import { createUser, requireDatabase, TEST_PASSWORD } from "../support/db";
-import { http, randomIp, signIn } from "../support/http";
+import { baseUrl, http, randomIp, signIn } from "../support/http";
 
 requireDatabase();
 
@@ -161,6 +161,27 @@ describe("sessions follow the database", () => {
       .set({ sessionVersion: user.sessionVersion + 1 })
       .where(eq(users.id, user.id));
     expect((await http("/api/admin/users", { cookie })).status).toBe(401);
+  });
+
+  it("refuses a session handed over in the proxy's header by the client itself", async () => {
+    // proxy.ts hands the session it read to the handler in x-benchclear-session, with a token only
+    // this server process knows (lib/auth/request-session.ts). A client naming an admin there, with
+    // no cookie or with its own instructor's cookie, must stay who its cookie says it is.
+    const admin = await createUser({ roles: ["admin"] });
+    const instructor = await createUser({ roles: ["instructor"] });
+    const cookie = await signIn(instructor.email);
+    for (const token of ["", "guess", "0".repeat(64)]) {
+      const forged = `${token}.${encodeURIComponent(JSON.stringify({ id: admin.id, sv: admin.sessionVersion }))}`;
+      const headers = { "x-benchclear-session": forged };
+      expect((await http("/api/admin/users", { headers })).status).toBe(401);
+      expect((await http("/api/admin/users", { headers, cookie })).status).toBe(403);
+      // A route the proxy does not see (uploads) reads the cookie itself: 401 before anything else.
+      const upload = await http(`/api/applications/${admin.id}/attachments`, {
+        method: "POST",
+        headers: { ...headers, origin: baseUrl() },
+      });
+      expect(upload.status).toBe(401);
+    }
   });
 
   it("refuses a protected route even when the request claims to be a middleware subrequest", async () => {
