@@ -1,5 +1,5 @@
 import "server-only";
-import { and, asc, count, eq, gte, inArray, lte, ne, or, sql, type SQL } from "drizzle-orm";
+import { and, asc, eq, gte, inArray, lte, ne, or, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { db } from "@/db";
 import {
@@ -62,11 +62,53 @@ function pendingRoleSql(all: Map<number, ChainRules>): SQL<StepRole | null> {
   return sql<StepRole | null>`(CASE ${branch("reviewer")} ${branch("safety_officer")} ELSE NULL END)`;
 }
 
+/**
+ * Waiting at a step `role` signs, as plain comparisons of the application's own columns (chain rules
+ * version, tier, step), one per (version, tier, step) of every rule set in use. Unlike a test of
+ * pendingRoleSql's CASE, PostgreSQL estimates these from its statistics (and the extended statistics
+ * of migration 0017_queue_statistics), so it walks application_waiting_idx in order for a page
+ * instead of sorting every waiting application (docs/performance.md).
+ */
+function waitsForRole(all: Map<number, ChainRules>, role: StepRole): SQL {
+  const terms: SQL[] = [];
+  for (const [version, rules] of all) {
+    const versionIs =
+      Number(version) === BUILT_IN_CHAIN_VERSION
+        ? sql.raw(
+            `("application"."chain_rules_version" IS NULL OR "application"."chain_rules_version" = ${Number(version)})`,
+          )
+        : sql.raw(`"application"."chain_rules_version" = ${Number(version)}`);
+    rules.tiers.forEach((chain, tier) => {
+      chain.steps.forEach((stepRole, i) => {
+        if (stepRole === role)
+          terms.push(
+            sql`(${versionIs} AND ${sql.raw(`"application"."tier" = ${Number(tier)} AND "application"."chain_step" = ${i}`)})`,
+          );
+      });
+    });
+  }
+  return terms.length ? sql`(${sql.join(terms, sql` OR `)})` : sql`false`;
+}
+
 /** Applications this user may see in the queue at all. */
 function queueScope(user: CurrentUser): SQL {
   if (can(user, "application.review.any")) return sql`true`;
   if (can(user, "application.review") && user.departmentId) return eq(applications.departmentId, user.departmentId);
   return sql`false`;
+}
+
+/**
+ * Waiting for this user's signature, one condition per role they sign as (each an application's
+ * role at its pending step, plus separation of duties); the branches never overlap (one pending
+ * role each). Kept apart so each can be planned on its own (see waitsForRole).
+ */
+function actionableBranches(user: CurrentUser, all: Map<number, ChainRules>): SQL[] {
+  const branches: SQL[] = [];
+  if (can(user, "application.review") && user.departmentId) {
+    branches.push(sql`(${waitsForRole(all, "reviewer")} AND ${applications.departmentId} = ${user.departmentId})`);
+  }
+  if (can(user, "permit.approve")) branches.push(waitsForRole(all, "safety_officer"));
+  return branches.map((branch) => and(branch, separatedFrom(user))!);
 }
 
 /** Waiting for this user's signature: their role at the pending step, and separation of duties. */
@@ -77,8 +119,12 @@ function actionableBy(user: CurrentUser, role: SQL<StepRole | null>): SQL {
   }
   if (can(user, "permit.approve")) branches.push(sql`(${role} = 'safety_officer')`);
   if (branches.length === 0) return sql`false`;
+  return and(or(...branches), separatedFrom(user))!;
+}
+
+/** Separation of duties: never one's own application, one naming oneself, or one already signed. */
+function separatedFrom(user: CurrentUser): SQL {
   return and(
-    or(...branches),
     sql`${applications.applicantId} <> ${user.id}`,
     sql`NOT (${user.id}::uuid = ANY(${applications.namedUserIds}))`,
     sql`NOT EXISTS (SELECT 1 FROM ${decisions} WHERE ${decisions.revisionId} = ${applications.currentRevisionId} AND ${decisions.signerId} = ${user.id})`,
@@ -108,12 +154,12 @@ export async function listQueue(
   now = new Date(),
   { pageSize = QUEUE_PAGE_SIZE, count: withCount = true }: { pageSize?: number; count?: boolean } = {},
 ) {
-  const role = pendingRoleSql(await allChainRules());
+  const rules = await allChainRules();
+  const role = pendingRoleSql(rules);
   const actionable = actionableBy(user, role);
-  const where = and(
+  const common = and(
     WAITING,
     queueScope(user),
-    (filters.scope ?? "mine") === "mine" ? actionable : undefined,
     filters.tier !== undefined ? eq(applications.tier, filters.tier) : undefined,
     filters.departmentId ? eq(applications.departmentId, filters.departmentId) : undefined,
     filters.state ? eq(applications.state, filters.state) : undefined,
@@ -122,6 +168,24 @@ export async function listQueue(
       : undefined,
   );
   const page = Math.max(1, Math.floor(filters.page ?? 1));
+  const mine = (filters.scope ?? "mine") === "mine";
+  // "mine": the ids of each role's first pages, each walked in queue order on its own (one OR over
+  // both roles is estimated far too selective, and PostgreSQL then sorts every waiting application:
+  // 7 × the p95 at 100k permits, docs/performance.md); then the page is cut from their union.
+  const branches = mine ? actionableBranches(user, rules) : [sql`true`];
+  const reach = page * pageSize + 1;
+  const branchIds = branches.map(
+    (branch) =>
+      sql`(SELECT ${applications.id} FROM ${applications} WHERE ${and(common, branch)} ORDER BY ${applications.waitingSince} ASC NULLS LAST, ${applications.seq} ASC LIMIT ${reach})`,
+  );
+  const where = mine
+    ? branchIds.length
+      ? sql`${applications.id} IN (${sql.join(branchIds, sql` UNION ALL `)})`
+      : sql`false`
+    : common;
+  const capped = branches.map(
+    (branch) => sql`(SELECT 1 FROM ${applications} WHERE ${and(common, branch)} LIMIT ${QUEUE_COUNT_CAP + 1})`,
+  );
   const [fetched, [counted]] = await Promise.all([
     db
       .select({
@@ -146,15 +210,10 @@ export async function listQueue(
       // One more than a page: whether there is a next page, without counting them all.
       .limit(pageSize + 1)
       .offset((page - 1) * pageSize),
-    withCount
-      ? db.select({ n: count() }).from(
-          db
-            .select({ one: sql`1` })
-            .from(applications)
-            .where(where)
-            .limit(QUEUE_COUNT_CAP + 1)
-            .as("capped"),
-        )
+    withCount && capped.length
+      ? db
+          .execute<{ n: string }>(sql`SELECT count(*) AS n FROM (${sql.join(capped, sql` UNION ALL `)}) AS capped`)
+          .then((result) => result.rows)
       : Promise.resolve([{ n: 0 }]),
   ]);
   const n = Number(counted?.n ?? 0);
@@ -179,16 +238,21 @@ export type CappedTierCounts = Record<0 | 1 | 2 | 3 | 4, number>;
 export async function queueCountsByTier(user: CurrentUser): Promise<CappedTierCounts> {
   const counts: CappedTierCounts = { 0: 0, 1: 0, 2: 0, 3: 0, 4: 0 };
   if (!can(user, "application.review")) return counts;
-  const role = pendingRoleSql(await allChainRules());
-  const where = and(WAITING, queueScope(user), actionableBy(user, role));
+  const branches = actionableBranches(user, await allChainRules());
+  if (branches.length === 0) return counts;
+  // Each role's count on its own, for the reason listQueue gives; they never overlap.
+  const capped = branches.map(
+    (branch) =>
+      sql`(SELECT 1 FROM ${applications} WHERE ${and(WAITING, queueScope(user), branch)} AND ${applications.tier} = t.tier LIMIT ${QUEUE_COUNT_CAP + 1})`,
+  );
   const result = await db.execute<{ tier: number; n: string }>(sql`
     SELECT t.tier, (
-      SELECT count(*) FROM (
-        SELECT 1 FROM ${applications} WHERE ${where} AND ${applications.tier} = t.tier LIMIT ${QUEUE_COUNT_CAP + 1}
-      ) AS capped
+      SELECT count(*) FROM (${sql.join(capped, sql` UNION ALL `)}) AS capped
     ) AS n
     FROM (VALUES (0), (1), (2), (3), (4)) AS t(tier)`);
-  for (const row of result.rows) counts[Number(row.tier) as 0 | 1 | 2 | 3 | 4] = Number(row.n);
+  // Each role stops at the cap + 1, so their sum may pass it: the card reads it as "more than the cap".
+  for (const row of result.rows)
+    counts[Number(row.tier) as 0 | 1 | 2 | 3 | 4] = Math.min(Number(row.n), QUEUE_COUNT_CAP + 1);
   return counts;
 }
 
