@@ -3,7 +3,9 @@
 // may do is the permission table's business (lib/auth/permissions.ts): code asks for a permission,
 // never a role. Pure and browser-safe: client components import it.
 
-export const ROLES = ["instructor", "reviewer", "safety_officer", "admin"] as const;
+// `responder`: an emergency responder's account (fire service, campus security). It sees the live
+// high-voltage sheet and nothing else: it holds no "workspace.use" (lib/auth/permissions.ts).
+export const ROLES = ["instructor", "reviewer", "safety_officer", "admin", "responder"] as const;
 export type Role = (typeof ROLES)[number];
 
 export const ROLE_LABELS: Record<Role, string> = {
@@ -11,6 +13,7 @@ export const ROLE_LABELS: Record<Role, string> = {
   reviewer: "Reviewer",
   safety_officer: "Safety officer",
   admin: "Admin",
+  responder: "Responder",
 };
 
 /** Checkbox options for the admin's invite and user forms, in the list's order. */

@@ -98,6 +98,7 @@ export async function seed(): Promise<void> {
   await demoTraining();
   await demoIncidents();
   await demoUpkeep();
+  await seedLiveAndReportDemo();
 }
 
 /**
@@ -435,6 +436,13 @@ async function demoUpkeep(): Promise<void> {
   }
   await writeAudit(db, { actor: null, action: MARK, entityType: "demo", entityId: "upkeep" });
   console.log("  demo data: inspection records on two apparatus, one apparatus retired");
+}
+
+/** Issue 18: the responder's account and set-ups live today (/live); scripts/demo-live-report.ts. */
+async function seedLiveAndReportDemo(): Promise<void> {
+  const { seedLiveSheetDemo } = await import("./demo-live-report");
+  const live = await seedLiveSheetDemo(DEMO_PASSWORD);
+  if (live) console.log("  demo data: a responder's account and three set-ups live today");
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {

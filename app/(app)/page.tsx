@@ -16,7 +16,8 @@ import { TierBadge } from "@/app/_components/tier-badge";
 import { ApparatusChangesSection } from "@/app/_components/rereview/apparatus-changes-section";
 import { TrainingLapsesSection } from "@/app/_components/training/training-lapses-section";
 import { myDashboardApplications } from "@/lib/applications/queries";
-import { can, requirePageUser } from "@/lib/auth/guards";
+import { redirect } from "next/navigation";
+import { can, getCurrentUser, requirePageUser } from "@/lib/auth/guards";
 import { expiringPermits } from "@/lib/permits/queries";
 import { institutionTimeZone } from "@/lib/settings/queries";
 import { listQueue, queueCountsByTier } from "@/lib/review/queries";
@@ -28,6 +29,9 @@ export const metadata: Metadata = { title: "Dashboard" };
 // officers their queue by tier and the oldest wait, everyone with permits those ending soon, admins
 // their users and rules.
 export default async function DashboardPage() {
+  // A responder's account lands on the one page it may see (sign-in sends everyone to "/").
+  const signedIn = await getCurrentUser();
+  if (signedIn && !can(signedIn, "workspace.use") && can(signedIn, "live.read")) redirect("/live");
   const user = await requirePageUser(undefined, "/");
   const applies = can(user, "application.create");
   const reviews = can(user, "application.review");

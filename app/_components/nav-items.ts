@@ -3,7 +3,7 @@
 // server components only as references.
 
 export type NavItem = {
-  key: "dashboard" | "apparatus" | "applications" | "review" | "permits" | "incidents" | "admin" | "training";
+  key: "dashboard" | "apparatus" | "applications" | "review" | "permits" | "incidents" | "live" | "admin" | "training";
   href: string;
   label: string;
   /** Path prefix that also marks this item current; defaults to href. */
@@ -18,6 +18,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { key: "permits", href: "/permits", label: "Permits" },
   { key: "incidents", href: "/incidents", label: "Incidents" },
   { key: "training", href: "/training", label: "Training" },
+  { key: "live", href: "/live", label: "Live now" },
   { key: "admin", href: "/admin/users", label: "Admin", match: "/admin" },
 ];
 

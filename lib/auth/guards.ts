@@ -66,9 +66,11 @@ export function can(user: Pick<CurrentUser, "roles"> | null, permission: Permiss
   return Boolean(user && rolesHave(user.roles, permission));
 }
 
+/** A signed-in user who may use the workspace ("workspace.use"; a responder's account may not). */
 export async function requireUser(): Promise<CurrentUser> {
   const user = await getCurrentUser();
   if (!user) throw unauthenticated();
+  if (!can(user, "workspace.use")) throw forbidden();
   return user;
 }
 
@@ -78,8 +80,22 @@ export async function requirePermission(permission: Permission): Promise<Current
   return user;
 }
 
-/** For pages: signed-out visitors go to the sign-in page; a missing permission shows a 403 page. */
+/**
+ * For pages: signed-out visitors go to the sign-in page; a missing permission shows a 403 page. A page
+ * that names no permission still needs "workspace.use" (every role but the responder's), so an
+ * account that may see only the live sheet is refused everywhere else by default.
+ */
 export async function requirePageUser(permission?: Permission, from?: string): Promise<CurrentUser> {
+  const user = await requireSignedInPage(from);
+  if (!can(user, permission ?? "workspace.use")) redirect("/forbidden");
+  return user;
+}
+
+/**
+ * Only signed in, whatever the account may do: for the signed-in frame (app/(app)/layout.tsx) and the
+ * 403 page, which every account must be able to reach. Pages use requirePageUser.
+ */
+export async function requireSignedInPage(from?: string): Promise<CurrentUser> {
   const user = await getCurrentUser();
   if (!user) {
     // The page asked for, query included, as proxy.ts saw it; else the page's own path. The sign-in
@@ -87,7 +103,6 @@ export async function requirePageUser(permission?: Permission, from?: string): P
     const asked = (await headers()).get(ASKED_PATH_HEADER) ?? from;
     redirect(asked && asked !== "/" ? `/sign-in?from=${encodeURIComponent(asked)}` : "/sign-in");
   }
-  if (permission && !can(user, permission)) redirect("/forbidden");
   return user;
 }
 

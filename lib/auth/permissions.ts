@@ -5,6 +5,13 @@ import type { Role } from "@/lib/roles";
 // lib/auth/guards.ts and the domain modules, on top of this table.
 
 export const PERMISSIONS = {
+  // Using the signed-in workspace at all: every page and route that asks only for a signed-in user
+  // (requirePageUser() without a permission, route({ access: "user" })) asks for this. A responder
+  // holds none of it, so every page and route refuses that account except the live sheet.
+  "workspace.use": ["instructor", "reviewer", "safety_officer", "admin"],
+  // Where high voltage is live today (/live and its one-page PDF): for the safety office and for
+  // emergency responders.
+  "live.read": ["safety_officer", "responder"],
   "hazard.assess": ["instructor", "reviewer", "safety_officer", "admin"],
   "apparatus.read": ["instructor", "reviewer", "safety_officer", "admin"],
   "apparatus.write": ["instructor", "reviewer", "safety_officer"],

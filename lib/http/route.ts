@@ -95,7 +95,9 @@ export function route<B = undefined, Q = undefined, A extends Access = Access>(
       const user = await getCurrentUser();
       if (options.access !== "public") {
         if (!user) throw unauthenticated();
-        if (options.access !== "user" && !can(user, options.access)) throw forbidden();
+        // "user" is any account that may use the workspace: not a responder's, which sees the live
+        // sheet only (lib/auth/permissions.ts).
+        if (!can(user, options.access === "user" ? "workspace.use" : options.access)) throw forbidden();
       }
 
       const rawParams = (await context?.params) ?? {};

@@ -2,7 +2,7 @@ import "server-only";
 import { z } from "zod";
 import { AppError, notFound } from "@/lib/errors";
 import { isRecordId } from "@/lib/http/ids";
-import type { CurrentUser } from "@/lib/auth/guards";
+import { can, type CurrentUser } from "@/lib/auth/guards";
 import { getPermitDocumentFor } from "./store";
 import type { DocumentKind, PaperSize } from "./types";
 
@@ -24,12 +24,19 @@ export function signInRedirect(request: Request): Response {
   return new Response(null, { status: 307, headers: { Location: target.pathname + target.search } });
 }
 
+/** The 403 page, for a browser link opened by an account that may not use it. */
+export function forbiddenRedirect(): Response {
+  return new Response(null, { status: 307, headers: { Location: "/forbidden" } });
+}
+
 export async function permitDocumentResponse(input: {
   user: CurrentUser;
   permitId: string | undefined;
   kind: DocumentKind;
   size: PaperSize;
 }): Promise<Response> {
+  // A responder's account sees the live sheet only, not permits (lib/auth/permissions.ts).
+  if (!can(input.user, "workspace.use")) return forbiddenRedirect();
   if (!input.permitId || !isRecordId(input.permitId)) throw notFound("That permit");
   const file = await getPermitDocumentFor(input.user, input.permitId, { kind: input.kind, size: input.size });
   if (!/^[A-Za-z0-9._-]+$/.test(file.filename))

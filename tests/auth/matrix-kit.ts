@@ -8,15 +8,36 @@
 
 import type { Role } from "@/db/schema";
 
-export type Principal = "anonymous" | Role;
 export type Expectation = number | `→${string}`;
+
+// The responder's account (issue 18) may see the live sheet and nothing else. Rows name it only where
+// it is let in (tests/auth/matrix-rows/live-reports.ts) or sent somewhere of its own; everywhere else
+// its column is derived (responderExpectation below), so every row, old or new, proves it refused.
+export type WorkspaceRole = Exclude<Role, "responder">;
+/** The principals every row names (the responder's column is optional, see above). */
+export type Principal = "anonymous" | WorkspaceRole;
+export type Expectations = Record<Principal, Expectation> & { responder?: Expectation };
+
+/**
+ * The responder's expected answer when a row does not name it: refused wherever an anonymous visitor
+ * is asked to sign in (403 from the API, the 403 page for pages and browser links), and otherwise (a
+ * public route, the sign-in page) what any signed-in instructor gets.
+ */
+export function responderExpectation(expect: Expectations): Expectation {
+  if (expect.responder !== undefined) return expect.responder;
+  // A route that answers an anonymous visitor as it answers a signed-in one (sign-in itself, health).
+  if (expect.instructor === expect.anonymous) return expect.instructor;
+  if (expect.anonymous === 401) return 403;
+  if (expect.anonymous === "→/sign-in") return "→/forbidden";
+  return expect.instructor;
+}
 
 export type MatrixContext = {
   /** A user created for this row, for routes that act on "a user". */
   targetUserId: string;
   unique: string;
   /** The users the matrix signs in as, by principal, and their departments. */
-  users: Record<Role, { id: string; email: string; departmentId: string | null }>;
+  users: Record<WorkspaceRole, { id: string; email: string; departmentId: string | null }>;
   /** Whatever the row's `prepare` returned (ids of records it created for this cell). */
   data: Record<string, string>;
 };
@@ -29,12 +50,12 @@ export type MatrixRow = {
   prepare?: (ctx: MatrixContext) => Promise<Record<string, string>>;
   path?: (ctx: MatrixContext) => string;
   body?: (ctx: MatrixContext) => unknown;
-  expect: Record<Principal, Expectation>;
+  expect: Expectations;
   /** The request ends the caller's sessions (sign-out): sign in a fresh user of the role for each cell. */
   freshSession?: boolean;
 };
 
-export const everyone = (value: Expectation): Record<Principal, Expectation> => ({
+export const everyone = (value: Expectation): Expectations => ({
   anonymous: value,
   instructor: value,
   reviewer: value,
@@ -42,16 +63,12 @@ export const everyone = (value: Expectation): Record<Principal, Expectation> => 
   admin: value,
 });
 
-export const signedIn = (value: Expectation, anonymous: Expectation): Record<Principal, Expectation> => ({
+export const signedIn = (value: Expectation, anonymous: Expectation): Expectations => ({
   ...everyone(value),
   anonymous,
 });
 
-export const adminOnly = (
-  ok: Expectation,
-  anonymous: Expectation,
-  denied: Expectation,
-): Record<Principal, Expectation> => ({
+export const adminOnly = (ok: Expectation, anonymous: Expectation, denied: Expectation): Expectations => ({
   anonymous,
   instructor: denied,
   reviewer: denied,

@@ -5,6 +5,7 @@ import { users } from "@/db/schema";
 import { createRoleSet, createUser, requireDatabase, uniq } from "../support/db";
 import { http, signIn } from "../support/http";
 import { MATRIX, type Expectation, type MatrixContext, type MatrixRow, type Principal } from "./matrix";
+import { responderExpectation } from "./matrix-kit";
 import { builtRoutes, discoverRoutes, discoverServerActionFiles } from "./route-tree";
 
 requireDatabase();
@@ -20,7 +21,7 @@ function matches(status: number, location: string | null, expected: Expectation)
 }
 
 describe("authorization matrix", () => {
-  const cookies: Partial<Record<Principal | "disabled", string>> = {};
+  const cookies: Partial<Record<Principal | "responder" | "disabled", string>> = {};
   let roleUsers: MatrixContext["users"];
 
   beforeAll(async () => {
@@ -34,6 +35,9 @@ describe("authorization matrix", () => {
     for (const role of ["instructor", "reviewer", "safety_officer", "admin"] as const) {
       cookies[role] = await signIn(set[role].email);
     }
+    // An account that holds only the responder's role: the live sheet, and nothing else.
+    const responder = await createUser({ roles: ["responder"] });
+    cookies.responder = await signIn(responder.email);
     // A user who signed in and was then disabled: the token is still cryptographically valid.
     const disabled = await createUser({ roles: ["instructor", "reviewer", "safety_officer", "admin"] });
     cookies.disabled = await signIn(disabled.email);
@@ -72,6 +76,8 @@ describe("authorization matrix", () => {
 
   const cells = (row: MatrixRow) => [
     ...PRINCIPALS.map((p) => [p, row.expect[p]] as const),
+    // Named only where a row lets the responder in; refused everywhere else (matrix-kit.ts).
+    ["responder", responderExpectation(row.expect)] as const,
     // A disabled user's live token gets what an anonymous visitor gets.
     ["disabled", row.expect.anonymous] as const,
   ];
@@ -86,7 +92,9 @@ describe("authorization matrix", () => {
           const url = row.path ? row.path(ctx) : row.route;
           let cookie = principal === "anonymous" ? undefined : cookies[principal];
           if (row.freshSession && principal !== "anonymous" && principal !== "disabled") {
-            const fresh = await createUser({ roles: [principal], departmentId: roleUsers[principal].departmentId });
+            // A responder has no department; the others sign in fresh in their matrix department.
+            const departmentId = principal === "responder" ? null : roleUsers[principal].departmentId;
+            const fresh = await createUser({ roles: [principal], departmentId });
             cookie = await signIn(fresh.email);
           }
           const res = await http(url, {

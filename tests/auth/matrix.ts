@@ -5,6 +5,7 @@ import { ACCOUNT_ROWS } from "./matrix-rows/accounts";
 import { APPLICATION_ROWS } from "./matrix-rows/applications";
 import { INSTITUTION_ROWS } from "./matrix-rows/institution";
 import { INCIDENT_ROWS } from "./matrix-rows/incidents";
+import { LIVE_REPORT_ROWS } from "./matrix-rows/live-reports";
 import { MAIL_ROWS } from "./matrix-rows/mail";
 import { OPERATIONS_ROWS } from "./matrix-rows/operations";
 import { PDF_VERIFY_ROWS } from "./matrix-rows/pdf-verify";
@@ -35,4 +36,5 @@ export const MATRIX = [
   ...TRAINING_ROWS,
   ...EXPORT_ROWS,
   ...SUBMISSION_TRAINING_ROWS,
+  ...LIVE_REPORT_ROWS,
 ];

@@ -58,14 +58,14 @@ export type Person = { id: string | null; name: string };
 /** A complete, valid application content (applicationContentSchema) for a sample tier. */
 export function sampleContent(
   tier: Tier,
-  options: { responsible: Person; operators?: Person[]; firstDay: string; lastDay: string },
+  options: { responsible: Person; operators?: Person[]; firstDay: string; lastDay: string; room?: string },
 ): ApplicationContent {
   const sample = SAMPLE_SETUPS[tier];
   const content: ApplicationContent = {
     event: {
       title: `${sample.name} for the first-year lecture`,
       kind: tier === 0 ? "outreach_event" : "lecture_demonstration",
-      room: sample.room,
+      room: options.room ?? sample.room,
       audience: "students",
       audienceSize: 120,
       firstDay: options.firstDay,

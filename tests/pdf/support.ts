@@ -79,6 +79,8 @@ export async function createPermitFixture(
     validFrom?: string;
     validTo?: string;
     conditions?: string[];
+    /** Where the event takes place (the event's room); the sample's room when not given. */
+    room?: string;
   } = {},
 ) {
   await ensureInstitution();
@@ -100,6 +102,7 @@ export async function createPermitFixture(
     operators: [{ id: operator.id, name: operator.name }],
     firstDay: validFrom,
     lastDay: validTo,
+    room: options.room,
   });
   const assessment = assessSetup(SAMPLE_SETUPS[tier].setup);
   if (assessment.tier !== tier) throw new Error(`sample set-up for tier ${tier} assesses as tier ${assessment.tier}`);

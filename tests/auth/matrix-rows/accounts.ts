@@ -44,7 +44,8 @@ export const ACCOUNT_ROWS: MatrixRow[] = [
     expect: adminOnly(201, 401, 403),
   },
   // Pages.
-  { route: "/", method: "PAGE", expect: signedIn(200, "→/sign-in") },
+  // A responder's account lands on the live sheet, the one page it may see.
+  { route: "/", method: "PAGE", expect: { ...signedIn(200, "→/sign-in"), responder: "→/live" } },
   { route: "/sign-in", method: "PAGE", expect: signedIn("→/", 200) },
   {
     route: "/invite/[token]",
@@ -55,7 +56,7 @@ export const ACCOUNT_ROWS: MatrixRow[] = [
   { route: "/account", method: "PAGE", expect: signedIn(200, "→/sign-in") },
   // the list of publications behind the hazard engine's thresholds (issue 12)
   { route: "/references", method: "PAGE", expect: signedIn(200, "→/sign-in") },
-  { route: "/forbidden", method: "PAGE", expect: signedIn(200, "→/sign-in") },
+  { route: "/forbidden", method: "PAGE", expect: { ...signedIn(200, "→/sign-in"), responder: 200 } },
   { route: "/admin/users", method: "PAGE", expect: adminOnly(200, "→/sign-in", "→/forbidden") },
   // The hazard engine over HTTP: any signed-in user.
   {

@@ -16,6 +16,7 @@ import { todayIn } from "@/lib/permits/dates";
 import { editableSettings } from "@/lib/settings/queries";
 import { ChainRulesForm, PermitPrefixForm, ReminderForm } from "./rules-forms";
 import { TierRulesForm } from "./tier-rules-form";
+import { EmergencyContactsCard } from "./emergency-contacts-card";
 
 export const metadata: Metadata = { title: "Rules" };
 
@@ -105,6 +106,8 @@ export default async function AdminRulesPage() {
             <PermitPrefixForm prefix={settings.permitPrefix} year={year} />
           </Card>
         </div>
+
+        <EmergencyContactsCard />
 
         <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_20rem]">
           <Card
