@@ -103,10 +103,14 @@ describe("the rules preview over the demo story", () => {
     // active spring permit move; the expired autumn permit is not listed. The pulsed bank's 10 kJ
     // stays lethal (and tier 4 by arc flash); the sphere generator (about 33 pF at some 200 kV, under
     // 1 J) was tier 2 already.
-    expect(answer.lethal).toEqual({
-      applications: [["Long sparks for the electrostatics lecture", 3, 2]],
-      permits: [["Jar bank for the spring lecture series", 3, 2]],
-    });
+    // The live-sheet part of the story (scripts/demo-live-report.ts) adds a permit active today over the
+    // same jar bank set-up (8 × 5 nF at 25 kV: 12.5 J), "Long sparks for the evening lecture": it
+    // moves too. Its tier 1 and tier 2 set-ups (the discharge tube supply, the sphere generator) do not.
+    expect(answer.lethal.applications).toEqual([["Long sparks for the electrostatics lecture", 3, 2]]);
+    expect([...answer.lethal.permits].sort()).toEqual([
+      ["Jar bank for the spring lecture series", 3, 2],
+      ["Long sparks for the evening lecture", 3, 2],
+    ]);
 
     // Previewing adopted nothing.
     expect(answer.rulesVersionAfter).toBe("benchclear-default-2");
