@@ -87,6 +87,8 @@ const LIB_DOMAINS = {
   ],
   // The header's search: each kind through its own domain's read rule.
   search: ["apparatus", "applications", "auth", "errors", "permits", "users"],
+  // The safety committee's report (issue 18): read-only figures over permits and decisions.
+  reports: ["auth", "errors", "hazard", "permits", "settings"],
   verify: [
     "auth",
     "errors",
@@ -125,6 +127,7 @@ const LIB_DOMAINS = {
     "errors",
     "hazard",
     "permits",
+    "reports",
     "roles",
     "settings",
     "signing",

@@ -17,6 +17,7 @@ const NAV_PERMISSION: Partial<Record<NavItem["key"], Permission>> = {
   admin: "admin.users",
   training: "training.record",
   live: "live.read",
+  reports: "report.read",
 };
 
 function visibleNav(user: CurrentUser): NavItem[] {

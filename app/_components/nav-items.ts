@@ -3,7 +3,17 @@
 // server components only as references.
 
 export type NavItem = {
-  key: "dashboard" | "apparatus" | "applications" | "review" | "permits" | "incidents" | "live" | "admin" | "training";
+  key:
+    | "dashboard"
+    | "apparatus"
+    | "applications"
+    | "review"
+    | "permits"
+    | "incidents"
+    | "live"
+    | "reports"
+    | "admin"
+    | "training";
   href: string;
   label: string;
   /** Path prefix that also marks this item current; defaults to href. */
@@ -19,6 +29,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { key: "incidents", href: "/incidents", label: "Incidents" },
   { key: "training", href: "/training", label: "Training" },
   { key: "live", href: "/live", label: "Live now" },
+  { key: "reports", href: "/reports", label: "Reports" },
   { key: "admin", href: "/admin/users", label: "Admin", match: "/admin" },
 ];
 

@@ -12,6 +12,8 @@ export const PERMISSIONS = {
   // Where high voltage is live today (/live and its one-page PDF): for the safety office and for
   // emergency responders.
   "live.read": ["safety_officer", "responder"],
+  // The safety committee's report (/reports, its CSV and PDF): institution-wide figures.
+  "report.read": ["safety_officer", "admin"],
   "hazard.assess": ["instructor", "reviewer", "safety_officer", "admin"],
   "apparatus.read": ["instructor", "reviewer", "safety_officer", "admin"],
   "apparatus.write": ["instructor", "reviewer", "safety_officer"],

@@ -10,6 +10,7 @@ import { MAIL_ROWS } from "./matrix-rows/mail";
 import { OPERATIONS_ROWS } from "./matrix-rows/operations";
 import { PDF_VERIFY_ROWS } from "./matrix-rows/pdf-verify";
 import { PRE_USE_CHECK_ROWS } from "./matrix-rows/pre-use-checks";
+import { REPORT_ROWS } from "./matrix-rows/reports";
 import { REVIEW_ROWS } from "./matrix-rows/review";
 import { UPKEEP_ROWS } from "./matrix-rows/upkeep";
 import { REREVIEW_ROWS } from "./matrix-rows/rereview";
@@ -37,4 +38,5 @@ export const MATRIX = [
   ...EXPORT_ROWS,
   ...SUBMISSION_TRAINING_ROWS,
   ...LIVE_REPORT_ROWS,
+  ...REPORT_ROWS,
 ];

@@ -1,0 +1,40 @@
+import type { Browser } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { createPermitFixture } from "../pdf/support";
+import { createUser, requireDatabase, TEST_PASSWORD, uniq } from "../support/db";
+import { launchBrowser, newContext, seriousA11yViolations, signInWithForm } from "./support/browser";
+
+requireDatabase();
+
+// Issue 18: the live sheet and the committee report pass axe (serious and critical violations only)
+// in a real browser, once their charts have drawn. Only a browser runs the chart library's code.
+
+describe("live sheet and committee report in the browser", () => {
+  let browser: Browser;
+  beforeAll(async () => {
+    browser = await launchBrowser();
+    await createPermitFixture({ tier: 3, room: `Room 4, ${uniq("Axe Hall")}` });
+  });
+  afterAll(async () => {
+    await browser?.close();
+  });
+
+  it("has no serious axe violations on /live and /reports, and draws the report's charts", async () => {
+    const officer = await createUser({ roles: ["safety_officer"] });
+    const context = await newContext(browser);
+    const page = await context.newPage();
+    await signInWithForm(page, officer.email, TEST_PASSWORD);
+
+    await page.goto("/live");
+    await page.getByRole("heading", { name: "Live high voltage now" }).waitFor();
+    expect(await seriousA11yViolations(page)).toEqual([]);
+
+    await page.goto("/reports");
+    await page.getByRole("heading", { name: "Committee report" }).waitFor();
+    // The charts are drawn in the browser (SVG) beside their tables.
+    await page.locator(".recharts-surface").first().waitFor();
+    expect(await page.locator(".recharts-surface").count()).toBeGreaterThanOrEqual(5);
+    expect(await seriousA11yViolations(page)).toEqual([]);
+    await context.close();
+  }, 20_000);
+});
