@@ -1,8 +1,9 @@
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createPermitFixture } from "../pdf/support";
-import { createUser, requireDatabase, TEST_PASSWORD, uniq } from "../support/db";
-import { launchBrowser, newContext, seriousA11yViolations, signInWithForm } from "./support/browser";
+import { createUser, requireDatabase, uniq } from "../support/db";
+import { baseUrl, signIn } from "../support/http";
+import { launchBrowser, newContext, seriousA11yViolations } from "./support/browser";
 
 requireDatabase();
 
@@ -22,8 +23,13 @@ describe("live sheet and committee report in the browser", () => {
   it("has no serious axe violations on /live and /reports, and draws the report's charts", async () => {
     const officer = await createUser({ roles: ["safety_officer"] });
     const context = await newContext(browser);
+    // Signed in over HTTP (the sign-in form is not what this test is about): the session cookie.
+    const cookies = (await signIn(officer.email)).split("; ").map((pair) => {
+      const [name, ...value] = pair.split("=");
+      return { name, value: value.join("="), url: baseUrl() };
+    });
+    await context.addCookies(cookies);
     const page = await context.newPage();
-    await signInWithForm(page, officer.email, TEST_PASSWORD);
 
     await page.goto("/live");
     await page.getByRole("heading", { name: "Live high voltage now" }).waitFor();
