@@ -27,6 +27,12 @@ const SECTIONS: { chart: ReportChart; title: string; note: string; bar?: string 
   },
   { chart: "active", title: "Active permits", note: "Permits active today, by department and tier.", bar: "total" },
   { chart: "expiries", title: "Expiries in the next 90 days", note: "Active permits whose last valid day is near." },
+  {
+    chart: "incidents",
+    title: "Incidents per month",
+    note: "Incident and near-miss reports by the month they happened; someone hurt counts either kind.",
+    bar: "total",
+  },
 ];
 
 function Section({

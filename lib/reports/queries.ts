@@ -20,6 +20,9 @@ import type { ReportFilterInput } from "./schemas";
 //   active       permits active today (not revoked, not past their last day) by department and tier
 //   expiries     permits active today whose last valid day is within the next 90 days (today and
 //                the 89 after), by week, and each of them
+//   incidents    incident and near-miss reports by the month they happened (occurred_at, not the day
+//                they were reported), with how many hurt someone. An incident's department is that of
+//                the permit it names, else of the apparatus it names, else of its reporter.
 
 export const EXPIRY_WINDOW_DAYS = 90;
 
@@ -50,6 +53,7 @@ export type Report = {
   active: { department: string; tiers: TierCounts; total: number }[];
   expiriesByWeek: { weekStart: string; tiers: TierCounts; total: number }[];
   expiries: { number: string; tier: number; department: string; holder: string; validTo: string; daysLeft: number }[];
+  incidents: { month: string; incidents: number; nearMisses: number; injuries: number; total: number }[];
 };
 
 /** Resolves the filters against the institution's calendar (default: the last twelve months). */
@@ -196,6 +200,27 @@ export async function committeeReport(user: CurrentUser, filters: ReportFilters)
     return { weekStart: addDaysIso(today, w * 7), tiers, total: Object.values(tiers).reduce((a, b) => a + b, 0) };
   });
 
+  const incidentRows = (
+    await db.execute<{ month: string; incidents: number; near_misses: number; injuries: number }>(sql`
+      SELECT to_char(i.occurred_at AT TIME ZONE ${timeZone}, 'YYYY-MM') AS month,
+        count(*) FILTER (WHERE i.kind = 'incident')::int AS incidents,
+        count(*) FILTER (WHERE i.kind = 'near_miss')::int AS near_misses,
+        count(*) FILTER (WHERE i.injuries)::int AS injuries
+      FROM incident i
+        LEFT JOIN permit ip ON ip.id = i.permit_id
+        LEFT JOIN application ia ON ia.id = ip.application_id
+        LEFT JOIN apparatus iap ON iap.id = i.apparatus_id
+        JOIN app_user ir ON ir.id = i.reporter_id
+      WHERE ${localDay(sql`i.occurred_at`, timeZone)} BETWEEN ${from}::date AND ${to}::date
+        AND ${dept(sql`coalesce(ia.department_id, iap.department_id, ir.department_id)`)}
+      GROUP BY 1`)
+  ).rows;
+  const incidents = monthsBetween(from, to).map((month) => {
+    const row = incidentRows.find((r) => r.month === month);
+    const counts = { incidents: row?.incidents ?? 0, nearMisses: row?.near_misses ?? 0, injuries: row?.injuries ?? 0 };
+    return { month, ...counts, total: counts.incidents + counts.nearMisses };
+  });
+
   return {
     filters,
     departmentName: departmentRow?.name ?? null,
@@ -205,5 +230,6 @@ export async function committeeReport(user: CurrentUser, filters: ReportFilters)
     active,
     expiriesByWeek,
     expiries,
+    incidents,
   };
 }

@@ -7,8 +7,7 @@ import { z } from "zod";
 /** The longest range a report covers: 5 years of days (a committee looks back a term or a few years). */
 export const MAX_REPORT_DAYS = 5 * 366;
 
-// Incidents per month join these once the product records incidents (not on main when this was written).
-export const REPORT_CHARTS = ["issued", "decision-times", "returns", "active", "expiries"] as const;
+export const REPORT_CHARTS = ["issued", "decision-times", "returns", "active", "expiries", "incidents"] as const;
 export type ReportChart = (typeof REPORT_CHARTS)[number];
 
 const isoDay = z.iso.date({ error: "Enter a date (YYYY-MM-DD)." });

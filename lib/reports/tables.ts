@@ -77,6 +77,17 @@ export function reportTable(report: Report, chart: ReportChart): ReportTable {
         ],
         rows: report.expiries.map((e) => [e.number, e.tier, e.department, e.holder, e.validTo, e.daysLeft]),
       };
+    case "incidents":
+      return {
+        columns: [
+          { csv: "month", label: "Month" },
+          { csv: "incidents", label: "Incidents", numeric: true },
+          { csv: "near_misses", label: "Near misses", numeric: true },
+          { csv: "with_injuries", label: "Someone hurt", numeric: true },
+          { csv: "total", label: "Total", numeric: true },
+        ],
+        rows: report.incidents.map((m) => [m.month, m.incidents, m.nearMisses, m.injuries, m.total]),
+      };
   }
 }
 

@@ -39,7 +39,7 @@ describe("live sheet and committee report in the browser", () => {
     await page.getByRole("heading", { name: "Committee report" }).waitFor();
     // The charts are drawn in the browser (SVG) beside their tables.
     await page.locator(".recharts-surface").first().waitFor();
-    expect(await page.locator(".recharts-surface").count()).toBeGreaterThanOrEqual(5);
+    expect(await page.locator(".recharts-surface").count()).toBeGreaterThanOrEqual(6);
     expect(await seriousA11yViolations(page)).toEqual([]);
     await context.close();
   }, 20_000);

@@ -3,7 +3,7 @@ import { sql } from "drizzle-orm";
 import { quantileSeq } from "mathjs";
 import { beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
-import { applicationRevisions, applications, decisions, departments, permits, users } from "@/db/schema";
+import { applicationRevisions, applications, decisions, departments, incidents, permits, users } from "@/db/schema";
 import { eq } from "drizzle-orm";
 import { currentUserColumns } from "@/lib/auth/current-user";
 import { sealDecision } from "@/lib/records/seal";
@@ -213,9 +213,44 @@ describe("the committee report", () => {
         permit: { issuedAt: at("2024-12-04T10:00:00"), validFrom: "2024-12-04", validTo: addDays(today, -1) },
       },
     ];
-    for (const c of cases) await makeCase(dept, applicant, c);
+    const made = [];
+    for (const c of cases) made.push(await makeCase(dept, applicant, c));
     // Another department's permit in the range: never in this department's figures.
-    await makeCase(other.id, outsider, cases[0]);
+    const outside = await makeCase(other.id, outsider, cases[0]);
+
+    // Incident and near-miss reports. A report counts for the department of the permit it names, else
+    // of its reporter (none here names only an apparatus).
+    const incidentRow = (
+      kind: "incident" | "near_miss",
+      occurredAt: string,
+      reporterId: string,
+      permitId: string | null,
+      injuries = false,
+    ) => ({
+      kind,
+      summary: uniq("Report incident"),
+      description: "Written by the committee report test.",
+      occurredAt: at(occurredAt),
+      location: "Room 1, Test Hall",
+      injuries,
+      permitId,
+      reporterId,
+    });
+    await getDb()
+      .insert(incidents)
+      .values([
+        // February: an incident with someone hurt, reported by the other department under this one's permit…
+        incidentRow("incident", "2025-02-14T12:00:00", outsider.id, made[0].permit!.id, true),
+        // …and a near miss reported by this department's instructor, naming no permit.
+        incidentRow("near_miss", "2025-02-20T09:00:00", applicant.id, null),
+        // March: the other department's, naming no permit: not this department's.
+        incidentRow("incident", "2025-03-10T09:00:00", outsider.id, null),
+        // April: this department's instructor under the other department's permit: that department's.
+        incidentRow("near_miss", "2025-04-10T09:00:00", applicant.id, outside.permit!.id),
+        // June: a near miss in this department; July: outside the range.
+        incidentRow("near_miss", "2025-06-15T12:00:00", applicant.id, null),
+        incidentRow("incident", "2025-07-03T12:00:00", applicant.id, null, true),
+      ]);
   });
 
   const officer = async () => {
@@ -321,6 +356,39 @@ describe("the committee report", () => {
     expect(r.expiriesByWeek.reduce((a, w) => a + w.total, 0)).toBe(2);
   });
 
+  it("counts incident and near-miss reports per month as this SQL does", async () => {
+    const r = await report();
+    // Independent of the report's query: each report's department by a CASE over scalar subqueries,
+    // months by date_trunc on the institution's local time.
+    const rows = (
+      await getDb().execute<{ month: string; kind: string; injuries: boolean; n: number }>(sql`
+        SELECT to_char(date_trunc('month', i.occurred_at AT TIME ZONE ${timeZone}), 'YYYY-MM') AS month,
+          i.kind, i.injuries, count(*)::int AS n
+        FROM incident i
+        WHERE i.occurred_at AT TIME ZONE ${timeZone} >= ${FROM}::timestamp
+          AND i.occurred_at AT TIME ZONE ${timeZone} < ${addDays(TO, 1)}::timestamp
+          AND CASE
+            WHEN i.permit_id IS NOT NULL THEN
+              (SELECT a.department_id FROM permit p, application a WHERE p.id = i.permit_id AND a.id = p.application_id)
+            WHEN i.apparatus_id IS NOT NULL THEN (SELECT department_id FROM apparatus WHERE id = i.apparatus_id)
+            ELSE (SELECT department_id FROM app_user WHERE id = i.reporter_id)
+          END = ${dept}::uuid
+        GROUP BY 1, 2, 3`)
+    ).rows;
+    const sum = (month: string, keep: (x: (typeof rows)[number]) => boolean) =>
+      rows.filter((x) => x.month === month && keep(x)).reduce((a, x) => a + x.n, 0);
+    expect(r.incidents.map((m) => m.month)).toEqual(["2025-01", "2025-02", "2025-03", "2025-04", "2025-05", "2025-06"]);
+    for (const m of r.incidents) {
+      expect(m.incidents, m.month).toBe(sum(m.month, (x) => x.kind === "incident"));
+      expect(m.nearMisses, m.month).toBe(sum(m.month, (x) => x.kind === "near_miss"));
+      expect(m.injuries, m.month).toBe(sum(m.month, (x) => x.injuries));
+      expect(m.total, m.month).toBe(sum(m.month, () => true));
+    }
+    // By hand: February one incident (someone hurt) and one near miss; June one near miss.
+    expect(r.incidents.map((m) => m.total)).toEqual([0, 2, 0, 0, 0, 1]);
+    expect(r.incidents.map((m) => m.injuries)).toEqual([0, 1, 0, 0, 0, 0]);
+  });
+
   it("exports each chart as CSV with formulas neutralised, and refuses bad filters by their field", async () => {
     const q = `from=${FROM}&to=${TO}&department=${dept}`;
     const issued = await http(`/api/reports/export.csv?chart=issued&${q}`, { cookie: officerCookie });
@@ -332,6 +400,11 @@ describe("the committee report", () => {
     const active = await http(`/api/reports/export.csv?chart=active&${q}`, { cookie: officerCookie });
     // OWASP CSV injection: a leading = gets an apostrophe, and the quotes inside are doubled (RFC 4180).
     expect(active.text).toContain(`"'=HYPERLINK(""x"") ${u}"`);
+    const incidentCsv = await http(`/api/reports/export.csv?chart=incidents&${q}`, { cookie: officerCookie });
+    expect(incidentCsv.status).toBe(200);
+    const incidentLines = incidentCsv.text.trim().split("\r\n");
+    expect(incidentLines[0]).toBe("month,incidents,near_misses,with_injuries,total");
+    expect(incidentLines[2]).toBe("2025-02,1,1,1,2");
     for (const [query, field] of [
       ["chart=pie", "chart"],
       [`chart=issued&from=2025-13-01`, "from"],
@@ -361,6 +434,7 @@ describe("the committee report", () => {
       "Returns per application",
       "Active permits",
       "Expiries in the next 90 days",
+      "Incidents per month",
     ])
       // The PDF sets section headings in capitals.
       expect(text.toUpperCase()).toContain(heading.toUpperCase());
@@ -375,7 +449,23 @@ describe("the committee report", () => {
     const page = await http(`/reports?from=${FROM}&to=${TO}&department=${dept}`, { cookie: officerCookie });
     expect(page.status).toBe(200);
     expect(page.text).toContain("Permits issued per month, by tier");
+    expect(page.text).toContain("Incident and near-miss reports per month");
     const bad = await http(`/reports?from=2025-06-01&to=2025-01-01`, { cookie: officerCookie });
     expect(bad.text).toContain("The end is before the start.");
+  });
+
+  it("loads the charting library on /reports only", async () => {
+    // Every script a page's HTML names; the chart library's own class name ("recharts-surface", the
+    // SVG it draws) marks its code in a minified chunk.
+    const chartCode = async (path: string) => {
+      const page = await http(path, { cookie: officerCookie });
+      expect(page.status, path).toBe(200);
+      const sources = [...new Set([...page.text.matchAll(/<script[^>]+src="([^"]+)"/g)].map((m) => m[1]))];
+      expect(sources.length, path).toBeGreaterThan(0);
+      const bodies = await Promise.all(sources.map(async (src) => (await http(src)).text));
+      return bodies.some((body) => body.includes("recharts-surface"));
+    };
+    expect(await chartCode(`/reports?from=${FROM}&to=${TO}&department=${dept}`)).toBe(true);
+    for (const path of ["/", "/live", "/permits", "/incidents"]) expect(await chartCode(path), path).toBe(false);
   });
 });

@@ -258,6 +258,30 @@ export default async function ReportsPage({
               caption={`Permits ending in the next ${EXPIRY_WINDOW_DAYS} days`}
             />
           </ReportSection>
+
+          <ReportSection
+            title="Incidents per month"
+            description="Incident and near-miss reports by the month they happened, and how many hurt someone. A report counts for the department of the permit it names, else of its apparatus, else of its reporter."
+            csvHref={csv("incidents")}
+            chart={
+              <ReportBarChart
+                data={report.incidents.map((m) => ({
+                  month: m.month,
+                  incidents: m.incidents,
+                  nearMisses: m.nearMisses,
+                }))}
+                xKey="month"
+                series={[
+                  { key: "incidents", label: "Incidents", colour: "#b8173a" },
+                  { key: "nearMisses", label: "Near misses", colour: "#c47a02" },
+                ]}
+                stacked
+                yLabel="reports"
+              />
+            }
+          >
+            <FigureTable report={report} chart="incidents" caption="Incident and near-miss reports per month" />
+          </ReportSection>
         </div>
       )}
     </>

@@ -1,4 +1,4 @@
-// GET /api/reports/export.csv?chart=issued|decision-times|returns|active|expiries&from&to&department —
+// GET /api/reports/export.csv?chart=issued|decision-times|returns|active|expiries|incidents&from&to&department —
 // one chart of the committee report as CSV (the figures of its table), for safety officers and
 // admins; cells that would start a spreadsheet formula are neutralised. 422 naming a bad field.
 import { route } from "@/lib/http/route";
