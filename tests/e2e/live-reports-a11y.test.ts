@@ -53,5 +53,5 @@ describe("live sheet and committee report in the browser", () => {
     expect(await page.getByRole("table").count()).toBeGreaterThanOrEqual(1);
     expect(await seriousA11yViolations(page)).toEqual([]);
     await context.close();
-  }, 20_000);
+  }, 30_000);
 });
