@@ -1,11 +1,12 @@
 import "server-only";
 import { and, eq, sql } from "drizzle-orm";
 import { db } from "@/db";
-import { applicationRevisions, applications, permits } from "@/db/schema";
+import { applications, permits } from "@/db/schema";
 import { writeAudit } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
-import { conflict, notFound } from "@/lib/errors";
+import { conflict } from "@/lib/errors";
 import { effectivePermitState } from "@/lib/permits/dates";
+import { lockHeldPermit } from "@/lib/permits/held";
 import { institutionToday } from "@/lib/permits/queries";
 import { renewalDraft } from "./renewal";
 
@@ -21,35 +22,7 @@ export async function renewPermit(actor: CurrentUser, permitId: string, now = ne
   assertCan(actor, "application.create");
   const today = await institutionToday(now);
   return db.transaction(async (tx) => {
-    const [row] = await tx
-      .select({
-        permit: {
-          id: permits.id,
-          number: permits.number,
-          state: permits.state,
-          validTo: permits.validTo,
-          holderId: permits.holderId,
-          version: permits.version,
-          renewedByApplicationId: permits.renewedByApplicationId,
-        },
-        application: {
-          id: applications.id,
-          title: applications.title,
-          departmentId: applications.departmentId,
-          namedUserIds: applications.namedUserIds,
-          apparatusId: applications.apparatusId,
-          apparatusRevisionId: applications.apparatusRevisionId,
-        },
-        content: applicationRevisions.content,
-        tier: applicationRevisions.tier,
-      })
-      .from(permits)
-      .innerJoin(applications, eq(applications.id, permits.applicationId))
-      .innerJoin(applicationRevisions, eq(applicationRevisions.id, permits.revisionId))
-      .where(eq(permits.id, permitId))
-      .for("update", { of: permits });
-    // Only the holder renews; anyone else learns nothing about the permit here.
-    if (!row || row.permit.holderId !== actor.id) throw notFound("That permit");
+    const row = await lockHeldPermit(tx, actor, permitId);
     if (effectivePermitState(row.permit, today) === "revoked") {
       throw conflict("A revoked permit cannot be renewed. Start a new application instead.");
     }

@@ -1,24 +1,18 @@
 import "server-only";
 import { and, desc, eq, inArray } from "drizzle-orm";
 import { db } from "@/db";
-import {
-  apparatus,
-  apparatusRevisions,
-  applicationRevisions,
-  applications,
-  permitApparatusChanges,
-  permits,
-} from "@/db/schema";
+import { apparatus, apparatusRevisions, applications, permitApparatusChanges } from "@/db/schema";
 import { canReadApparatus } from "@/lib/apparatus/access";
 import { setupToText } from "@/lib/apparatus/setup-text";
 import { draftFromContent } from "@/lib/applications/renewal";
 import { applicationContentSchema } from "@/lib/applications/schemas";
 import { writeAudit } from "@/lib/audit";
 import { assertCan, type CurrentUser } from "@/lib/auth/guards";
-import { conflict, notFound } from "@/lib/errors";
+import { conflict } from "@/lib/errors";
 import { assessSetup } from "@/lib/hazard";
 import { currentTierRules } from "@/lib/hazard-rules";
 import { effectivePermitState } from "@/lib/permits/dates";
+import { lockHeldPermit } from "@/lib/permits/held";
 import { institutionToday } from "@/lib/permits/queries";
 
 // An amendment: after the apparatus under an active permit changed, its holder starts a new
@@ -35,31 +29,8 @@ export async function amendPermit(actor: CurrentUser, permitId: string, now = ne
   const today = await institutionToday(now);
   const rules = await currentTierRules();
   return db.transaction(async (tx) => {
-    const [row] = await tx
-      .select({
-        permit: {
-          id: permits.id,
-          number: permits.number,
-          state: permits.state,
-          validTo: permits.validTo,
-          holderId: permits.holderId,
-        },
-        application: {
-          title: applications.title,
-          departmentId: applications.departmentId,
-          namedUserIds: applications.namedUserIds,
-          apparatusId: applications.apparatusId,
-        },
-        content: applicationRevisions.content,
-      })
-      .from(permits)
-      .innerJoin(applications, eq(applications.id, permits.applicationId))
-      .innerJoin(applicationRevisions, eq(applicationRevisions.id, permits.revisionId))
-      .where(eq(permits.id, permitId))
-      // Two clicks of "Start an amendment" queue here; the second then finds the first's draft.
-      .for("update", { of: permits });
-    // Only the holder amends; anyone else learns nothing about the permit here.
-    if (!row || row.permit.holderId !== actor.id) throw notFound("That permit");
+    // Two clicks of "Start an amendment" queue on the lock; the second then finds the first's draft.
+    const row = await lockHeldPermit(tx, actor, permitId);
     if (effectivePermitState(row.permit, today) !== "active") {
       throw conflict("Only an active permit can be amended. Start a new application instead.");
     }
