@@ -95,6 +95,10 @@ export async function runTrainingReminders(today: string): Promise<TrainingRemin
         )) > 0
       ) {
         sent.push(r.email);
+      } else {
+        // Already queued by an earlier run, with the officers' copies in the same transaction: a
+        // repeated run costs one insert per lapsing record, not one per record and officer.
+        return sent;
       }
       for (const officer of officers.filter((o) => o.email.toLowerCase() !== r.email.toLowerCase())) {
         const n = await queueMail(
