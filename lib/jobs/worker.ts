@@ -36,6 +36,11 @@ export type WorkerOptions = {
   schedule?: boolean;
   connectionString?: string;
   log?: (line: string) => void;
+  /**
+   * Which outbox rows a flush may send (default: every due row). Tests that share an outbox with
+   * other test files name their own rows, so a flush does not first work through everyone else's.
+   */
+  outboxIds?: () => Promise<number[]>;
 };
 
 export type RunningWorker = {
@@ -66,7 +71,8 @@ export async function startWorker(options: WorkerOptions = {}): Promise<RunningW
   await ensureQueues(boss);
 
   await boss.work(QUEUES.outbox, { pollingIntervalSeconds: 1, batchSize: 1 }, async () => {
-    const report = await deliverDueMail({ now: clock(), smtp: options.smtp?.(), backoff });
+    const ids = options.outboxIds ? await options.outboxIds() : undefined;
+    const report = await deliverDueMail({ now: clock(), smtp: options.smtp?.(), backoff, ids });
     const total = report.sent.length + report.retry.length + report.failed.length + report.unknown.length;
     if (total > 0) {
       log(
@@ -81,9 +87,10 @@ export async function startWorker(options: WorkerOptions = {}): Promise<RunningW
     const { at } = reminderJobData.parse(job?.data ?? {});
     const report = await runReminders({ now: at ? new Date(at) : clock() });
     log(
-      `[worker] permits on ${report.today} (${report.timeZone}): ${report.expired.length} expired, ${report.queued.length} reminder(s) queued`,
+      `[worker] permits on ${report.today} (${report.timeZone}): ${report.expired.length} expired, ${report.queued.length} reminder(s) queued, ${report.inspections.length} inspection(s) due, ${report.training.length} course(s) lapsing`,
     );
-    if (report.queued.length + report.inspections.length > 0) await boss.send(QUEUES.outbox, {});
+    if (report.queued.length + report.inspections.length + report.training.length > 0)
+      await boss.send(QUEUES.outbox, {});
     return { today: report.today, expired: report.expired.length, queued: report.queued.length };
   });
 

@@ -248,15 +248,13 @@ describe("the daily permit job", () => {
     // Completed a year before the day that is 7 days after the job's day: the 7-day reminder is due.
     const lapse = addDays(jobDay, 7);
     const completedOn = `${Number(lapse.slice(0, 4)) - 1}${lapse.slice(4)}`.replace(/-02-29$/, "-02-28");
-    await getDb()
-      .insert(trainingRecords)
-      .values({
-        userId: person.id,
-        courseTypeId: course.id,
-        completedOn,
-        trainer: "Safety office",
-        recordedById: officer.id,
-      });
+    await getDb().insert(trainingRecords).values({
+      userId: person.id,
+      courseTypeId: course.id,
+      completedOn,
+      trainer: "Safety office",
+      recordedById: officer.id,
+    });
 
     const first = await runReminders({ now: jobNow });
     const mine = first.training.filter((t) => t.userId === person.id);
@@ -378,7 +376,12 @@ describe("the daily permit job on several workers", () => {
 
   it("the pg-boss worker runs the job on demand and delivers each reminder once, however often it is asked", async () => {
     const fixture = await createPermitFixture({ validFrom: addDays(jobDay, -60), validTo: jobDay });
-    const worker = await startWorker({ schedule: false, pollMs: 200, log: () => {} });
+    const worker = await startWorker({
+      schedule: false,
+      pollMs: 200,
+      log: () => {},
+      outboxIds: () => outboxIdsTo(fixture.holder.email),
+    });
     try {
       await worker.requestReminders(new Date(jobNow));
       const caught = await waitFor(() =>
