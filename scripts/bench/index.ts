@@ -507,6 +507,14 @@ async function load(
           // the baseline's answer carries no version
         }
       }
+      // A save that timed out may still have landed, and a connection autocannon opens again takes
+      // the next draft, which wraps after 64: either way the draft is ahead of the version this
+      // connection holds. The 409 names the current one; without this, every later save of the
+      // connection is a conflict too.
+      if (t.autosave && status === 409) {
+        const current = /current version is (\d+)/.exec(body);
+        if (current) context.version = Number(current[1]);
+      }
     },
   };
   const instance = autocannon({
