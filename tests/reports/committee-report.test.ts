@@ -7,6 +7,7 @@ import { applicationRevisions, applications, decisions, departments, incidents, 
 import { eq } from "drizzle-orm";
 import { currentUserColumns } from "@/lib/auth/current-user";
 import { sealDecision } from "@/lib/records/seal";
+import { revisionHash } from "@/lib/signing/canonical";
 import { committeeReport, reportFilters } from "@/lib/reports/queries";
 import { reportTable } from "@/lib/reports/tables";
 import { pdfText } from "../pdf/support";
@@ -49,13 +50,16 @@ async function makeCase(departmentId: string, applicant: { id: string; name: str
     .returning();
   let lastRevision = "";
   for (const [i, r] of c.revisions.entries()) {
-    const hash = crypto.randomBytes(32).toString("hex");
+    // The hash of what the revision holds, as a real submission stores it: the records check (tests/records)
+    // verifies every decision in the database against its revision's content.
+    const content = { reportCase: app.id, revision: i + 1 };
+    const hash = revisionHash(content, {});
     const [rev] = await db
       .insert(applicationRevisions)
       .values({
         applicationId: app.id,
         revision: i + 1,
-        content: {},
+        content,
         assessment: {} as never,
         tier: c.tier,
         contentHash: hash,
