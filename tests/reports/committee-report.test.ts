@@ -81,6 +81,10 @@ async function makeCase(departmentId: string, applicant: { id: string; name: str
           meaning: "test",
           contentHash: hash,
           signedAt: new Date(r.submittedAt.getTime() + d.afterHours * H),
+          // An approval seals the validity and conditions its permit carries (the records check compares them).
+          ...(d.kind === "approve" && c.permit
+            ? { validFrom: c.permit.validFrom, validTo: c.permit.validTo, conditions: [] }
+            : {}),
         }),
       );
     }
