@@ -73,17 +73,32 @@ if (!Number.isInteger(SHARDS) || SHARDS < 1 || SHARDS > 4)
 const EXCLUSIVE = ["tests/reliability/pg-restart.test.ts"];
 // Rough seconds per file on this kind of machine, for balancing the copies when no earlier report
 // of this checkout says better; anything not named costs DEFAULT_WEIGHT.
+// Seconds per file in a full run on a 2-core machine (two copies at once), for a checkout with no
+// earlier report of its own (a clean clone in CI): the longest files first, spread over the copies.
+// A file's own entry wins over its folder's.
 const WEIGHTS = {
-  "tests/e2e/": 35,
-  "tests/cluster/": 62,
-  "tests/mail/delivery.test.ts": 38,
-  "tests/pdf/render.test.ts": 32,
-  "tests/jobs/reminders.test.ts": 21,
-  "tests/auth/matrix.test.ts": 16,
-  "tests/api/fuzz.test.ts": 10,
-  "tests/verify/verify.test.ts": 9,
+  "tests/e2e/journey.test.ts": 140,
+  "tests/e2e/forms-new-users.test.ts": 85,
+  "tests/e2e/review-permit-new-users.test.ts": 43,
+  "tests/e2e/application-form.test.ts": 41,
+  "tests/e2e/review-chain.test.ts": 40,
+  "tests/e2e/institution-sign-in.test.ts": 30,
+  "tests/e2e/": 15,
+  "tests/cluster/": 75,
+  "tests/pdf/render.test.ts": 65,
+  "tests/auth/matrix.test.ts": 51,
+  "tests/jobs/reminders.test.ts": 46,
+  "tests/mail/delivery.test.ts": 27,
+  "tests/api/fuzz.test.ts": 26,
+  "tests/reports/demo-story-report.test.ts": 16,
+  "tests/verify/verify.test.ts": 14,
+  "tests/mail/dev-mail-browser.test.ts": 12,
+  "tests/pdf/routes.test.ts": 12,
+  "tests/rules/preview-demo-story.test.ts": 12,
 };
 const DEFAULT_WEIGHT = 3;
+const BENCH_SMOKE_STAGE = "Benchmark smoke (npm run bench -- --smoke)";
+const BENCH_SMOKE_ARGS = ["scripts/bench/index.ts", "--smoke"];
 
 function stage(name, cmd, args, env) {
   step(name);
@@ -261,12 +276,18 @@ async function main() {
     if (!stage(name, bin("tsx"), ["scripts/migrate.ts"], copy.env)) throw new Error("migrations failed");
   }
   const testEnv = copies[0].env;
+  // A short run of `npm run bench` (1k permits, 1 s per route) so the benchmark never rots: it fails
+  // when a route errors or the harness breaks, never on speed. Only in full runs (no vitest filter).
+  const benchSmoke =
+    (vitestArgs.length === 0 && process.env.BENCHCLEAR_BENCH_SMOKE !== "0") ||
+    process.env.BENCHCLEAR_BENCH_SMOKE === "1";
   if (!quick && copies.length === 1) {
     stage("Lint (eslint, prettier)", "npm", ["run", "--silent", "lint"], testEnv);
     stage("Typecheck (tsc)", "npm", ["run", "--silent", "typecheck"], testEnv);
   }
 
   const distDir = distDirForTests();
+  const benchEnv = { ...testEnv, NODE_ENV: "production", NEXT_DIST_DIR: distDir };
   ensureBuild({ ...testEnv }, distDir);
 
   await startLocalIdp(testEnv, {
@@ -350,32 +371,24 @@ async function main() {
           stageBeside("Lint (eslint, prettier)", "lint", "npm", ["run", "--silent", "lint"], testEnv),
           stageBeside("Typecheck (tsc)", "tsc", "npm", ["run", "--silent", "typecheck"], testEnv),
         ];
-    await Promise.all([
-      stageBeside(
-        "Vitest (alone)",
-        "alone",
-        bin("vitest"),
-        vitestRun(EXCLUSIVE, reportFor(`${TEST_DB}-alone`)),
-        vitestEnv(copies[0], 0),
-      ),
-      ...checks,
-    ]);
+    // The benchmark smoke starts its own server: it runs once the file that restarts PostgreSQL is
+    // done and the test servers are stopped, beside the rest of lint and typecheck.
+    const aloneThenSmoke = stageBeside(
+      "Vitest (alone)",
+      "alone",
+      bin("vitest"),
+      vitestRun(EXCLUSIVE, reportFor(`${TEST_DB}-alone`)),
+      vitestEnv(copies[0], 0),
+    ).then(async () => {
+      await stopAllChildren();
+      if (benchSmoke) await stageBeside(BENCH_SMOKE_STAGE, "bench", bin("tsx"), BENCH_SMOKE_ARGS, benchEnv);
+    });
+    await Promise.all([aloneThenSmoke, ...checks]);
   }
 
   await stopAllChildren();
 
-  // A short run of `npm run bench` (1k permits, 1 s per route) so the benchmark never rots: it fails
-  // when a route errors or the harness breaks, never on speed. Only in full runs (no vitest filter).
-  if (
-    (vitestArgs.length === 0 && process.env.BENCHCLEAR_BENCH_SMOKE !== "0") ||
-    process.env.BENCHCLEAR_BENCH_SMOKE === "1"
-  ) {
-    stage("Benchmark smoke (npm run bench -- --smoke)", bin("tsx"), ["scripts/bench/index.ts", "--smoke"], {
-      ...testEnv,
-      NODE_ENV: "production",
-      NEXT_DIST_DIR: distDir,
-    });
-  }
+  if (benchSmoke && copies.length === 1) stage(BENCH_SMOKE_STAGE, bin("tsx"), BENCH_SMOKE_ARGS, benchEnv);
   releasePg();
 
   let passed = 0;
