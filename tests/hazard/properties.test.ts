@@ -173,7 +173,8 @@ describe("monotonic tiers", () => {
   it("adding a source never lowers the tier", () => {
     fc.assert(
       fc.property(setupArb, setupArb, (input, other) => {
-        const more = { ...input, sources: [...input.sources, other.sources[0]] };
+        // The added source gets an id of its own: two sources may not share one (a gap names its sources by id).
+        const more = { ...input, sources: [...input.sources, { ...other.sources[0], id: "added-source" }] };
         expect(assessSetup(more).tier).toBeGreaterThanOrEqual(assessSetup(input).tier);
       }),
       RUNS,
