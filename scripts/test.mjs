@@ -71,30 +71,32 @@ if (!Number.isInteger(SHARDS) || SHARDS < 1 || SHARDS > 4)
   throw new Error("TEST_SHARDS must be a whole number from 1 to 4");
 /** Files that restart the shared PostgreSQL: nothing else may use it while they run. */
 const EXCLUSIVE = ["tests/reliability/pg-restart.test.ts"];
-// Rough seconds per file on this kind of machine, for balancing the copies when no earlier report
-// of this checkout says better; anything not named costs DEFAULT_WEIGHT.
-// Seconds per file in a full run on a 2-core machine (two copies at once), for a checkout with no
-// earlier report of its own (a clean clone in CI): the longest files first, spread over the copies.
-// A file's own entry wins over its folder's.
+// Seconds per file in a clean clone's full run on a 2-core machine (two copies at once), for a
+// checkout with no earlier report of its own (CI): the longest files first, spread over the copies.
+// A file's own entry wins over its folder's; anything not named costs DEFAULT_WEIGHT.
 const WEIGHTS = {
-  "tests/e2e/journey.test.ts": 140,
-  "tests/e2e/forms-new-users.test.ts": 85,
-  "tests/e2e/review-permit-new-users.test.ts": 43,
-  "tests/e2e/application-form.test.ts": 41,
-  "tests/e2e/review-chain.test.ts": 40,
-  "tests/e2e/institution-sign-in.test.ts": 30,
-  "tests/e2e/": 15,
-  "tests/cluster/": 75,
-  "tests/pdf/render.test.ts": 65,
-  "tests/auth/matrix.test.ts": 51,
-  "tests/jobs/reminders.test.ts": 46,
-  "tests/mail/delivery.test.ts": 27,
-  "tests/api/fuzz.test.ts": 26,
-  "tests/reports/demo-story-report.test.ts": 16,
-  "tests/verify/verify.test.ts": 14,
-  "tests/mail/dev-mail-browser.test.ts": 12,
-  "tests/pdf/routes.test.ts": 12,
-  "tests/rules/preview-demo-story.test.ts": 12,
+  "tests/e2e/journey.test.ts": 148,
+  "tests/e2e/forms-new-users.test.ts": 96,
+  "tests/e2e/review-chain.test.ts": 55,
+  "tests/e2e/review-permit-new-users.test.ts": 54,
+  "tests/e2e/application-form.test.ts": 52,
+  "tests/e2e/institution-sign-in.test.ts": 31,
+  "tests/e2e/training-rereview.test.ts": 26,
+  "tests/e2e/incidents.test.ts": 21,
+  "tests/e2e/": 12,
+  "tests/cluster/": 103,
+  "tests/pdf/render.test.ts": 71,
+  "tests/auth/matrix.test.ts": 69,
+  "tests/jobs/reminders.test.ts": 41,
+  "tests/mail/delivery.test.ts": 35,
+  "tests/api/fuzz.test.ts": 25,
+  "tests/pdf/routes.test.ts": 16,
+  "tests/mail/dev-mail-browser.test.ts": 13,
+  "tests/verify/verify.test.ts": 12,
+  "tests/reports/demo-story-report.test.ts": 11,
+  "tests/live/live-sheet.test.ts": 11,
+  "tests/reliability/backup.test.ts": 11,
+  "tests/rules/preview-demo-story.test.ts": 9,
 };
 const DEFAULT_WEIGHT = 3;
 const BENCH_SMOKE_STAGE = "Benchmark smoke (npm run bench -- --smoke)";
