@@ -9,11 +9,10 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { applications, courseTypes, trainingRecords } from "@/db/schema";
 import type { SetupInput } from "@/lib/hazard";
-import { decide } from "@/lib/review/decide";
 import { pngBytes } from "../applications/support";
-import { asActor, createSubmittedApplication, createTeam, TIER_SETUPS } from "../review/support";
+import { permitOverApparatus } from "../rereview/support";
 import { createDepartment, createUser, requireDatabase, TEST_PASSWORD, uniq } from "../support/db";
-import { http, signIn } from "../support/http";
+import { http } from "../support/http";
 import { launchBrowser, newContext, signInWithForm } from "./support/browser";
 
 requireDatabase();
@@ -71,29 +70,7 @@ describe("people and the bench in the browser", () => {
 
   it("the holder sees the apparatus change with its diff and higher tier, and starts an amendment", async () => {
     // A tier-1 apparatus (0.45 µF at 100 V) under an active tier-1 permit.
-    const team = await createTeam();
-    const cookie = await signIn(team.instructor.email);
-    const name = `Jar bank ${uniq("ap")}`;
-    const created = await http("/api/apparatus", {
-      method: "POST",
-      cookie,
-      body: { name, room: "B12", notes: "", setup: TIER_SETUPS[1] },
-    });
-    expect(created.status, created.text).toBe(201);
-    const apparatus = created.json!.apparatus as { id: string; revisionId: string };
-    const { application } = await createSubmittedApplication({
-      applicant: team.instructor,
-      tier: 1,
-      setup: TIER_SETUPS[1],
-      apparatus: { id: apparatus.id, revisionId: apparatus.revisionId, name },
-    });
-    const { permit } = await decide(asActor(team.reviewer), application.id, {
-      kind: "approve",
-      expectedVersion: application.version,
-      password: TEST_PASSWORD,
-      confirmedRequirements: [],
-      extraConditions: [],
-    });
+    const { team, cookie, name, apparatusId, permit } = await permitOverApparatus();
 
     // Enlarged to 1 µF at 10 kV: E = ½·C·V² = ½ × 1e-6 F × (1e4 V)² = 50 J by hand, at or above the
     // 10 J at ≥ 100 V line of tier 3 (LBNL Electrical Safety Manual's capacitor hazard classes, as
@@ -101,7 +78,7 @@ describe("people and the bench in the browser", () => {
     const bigger: SetupInput = {
       sources: [{ id: "C1", kind: "capacitor", capacitance_F: 1e-6, voltage_V: 10_000, bleeder_ohm: 100e6 }],
     };
-    const edited = await http(`/api/apparatus/${apparatus.id}`, {
+    const edited = await http(`/api/apparatus/${apparatusId}`, {
       method: "PATCH",
       cookie,
       body: { name, room: "B12", notes: "", setup: bigger, expectedRevision: 1 },
@@ -111,7 +88,7 @@ describe("people and the bench in the browser", () => {
     const context = await newContext(browser);
     const page = await context.newPage();
     await signInWithForm(page, team.instructor.email, TEST_PASSWORD);
-    await page.goto(`/permits/${permit!.id}`);
+    await page.goto(`/permits/${permit.id}`);
     const banner = page.getByTestId("apparatus-changed");
     await banner.getByRole("heading", { name: "Apparatus changed since approval" }).waitFor();
     const diff = banner.getByRole("table", { name: "What changed since approval" });
@@ -127,7 +104,7 @@ describe("people and the bench in the browser", () => {
       .select({ amends: applications.amendmentOfPermitId, state: applications.state, tier: applications.tier })
       .from(applications)
       .where(eq(applications.id, amendmentId));
-    expect(amendment).toEqual({ amends: permit!.id, state: "draft", tier: 3 });
+    expect(amendment).toEqual({ amends: permit.id, state: "draft", tier: 3 });
     await context.close();
   }, 60_000);
 });
