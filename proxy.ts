@@ -2,7 +2,16 @@ import NextAuth from "next-auth";
 import { NextResponse, type NextFetchEvent, type NextRequest } from "next/server";
 import { ASKED_PATH_HEADER, authConfig } from "./auth.config";
 import { SESSION_HEADER, sessionHeaderValue } from "@/lib/auth/request-session";
-import { countAtVerifyGate, VERIFY_HEADERS, VERIFY_PATH_PREFIX } from "@/lib/verify/gate";
+import { COUNTED_HEADER, countAtVerifyGate, VERIFY_HEADERS, VERIFY_PATH_PREFIX } from "@/lib/verify/gate";
+import {
+  codeOfPath,
+  isOwnRender,
+  keptPage,
+  lookUpForPage,
+  OUTCOME_HEADER,
+  outcomeHeaders,
+  servesKeptPage,
+} from "@/lib/verify/rendered";
 
 // Runs before every page request. It does three things only: sends signed-out visitors of signed-in
 // pages to /sign-in, sets the Content-Security-Policy with a fresh nonce, and counts look-ups of the
@@ -37,14 +46,21 @@ function contentSecurityPolicy(nonce: string): string {
   ].join("; ");
 }
 
+function newNonce(): string {
+  return Buffer.from(crypto.getRandomValues(new Uint8Array(16))).toString("base64");
+}
+
 function withSecurityHeaders(request: NextRequest, extra?: Headers): NextResponse {
-  const nonce = Buffer.from(crypto.getRandomValues(new Uint8Array(16))).toString("base64");
+  const nonce = newNonce();
   const csp = contentSecurityPolicy(nonce);
   const headers = new Headers(request.headers);
   headers.set("x-nonce", nonce);
   headers.set("content-security-policy", csp);
-  // Never a client's own: set from what Auth.js read below, or removed (lib/auth/request-session.ts).
+  // Never a client's own: set from what Auth.js read below, or removed (lib/auth/request-session.ts);
+  // likewise the status page's "counted" token and content (lib/verify/rendered.ts).
   headers.delete(SESSION_HEADER);
+  headers.delete(COUNTED_HEADER);
+  headers.delete(OUTCOME_HEADER);
   extra?.forEach((value, key) => headers.set(key, value));
   const response = NextResponse.next({ request: { headers } });
   response.headers.set("Content-Security-Policy", csp);
@@ -75,18 +91,46 @@ const withSession = auth(async (request) => {
   return withSecurityHeaders(request, extra);
 }) as unknown as (request: NextRequest, event: NextFetchEvent) => Promise<Response>;
 
-export default async function proxy(request: NextRequest, event: NextFetchEvent) {
-  // The public verification page skips Auth.js (decrypting a session cookie its visitors rarely have
-  // is wasted work on the page a busy open day loads most; docs/performance.md). The look-up is
-  // counted here, once, and refused with a real 429 (pages cannot set a status); the page is told it
-  // was counted, so it makes no second round trip. Every answer stays out of search engines.
-  if (request.nextUrl.pathname.startsWith(VERIFY_PATH_PREFIX)) {
-    const gate = await countAtVerifyGate(request.headers);
-    if (gate.refused) return gate.refused;
-    const response = withSecurityHeaders(request, gate.requestHeaders);
-    for (const [key, value] of Object.entries(VERIFY_HEADERS)) response.headers.set(key, value);
-    return response;
+// The public verification page skips Auth.js (decrypting a session cookie its visitors rarely have
+// is wasted work on the page a busy open day loads most; docs/performance.md). The look-up is
+// counted here, once, and refused with a real 429 (pages cannot set a status). Then the permit is
+// read here, live, and a browser's load of the page is answered with the HTML this process rendered
+// for exactly that content, under a fresh nonce (lib/verify/rendered.ts); otherwise the page renders
+// what was read. Every answer stays out of search engines.
+async function verifyPage(request: NextRequest): Promise<Response> {
+  const { pathname } = request.nextUrl;
+  // This process rendering a page to keep: already counted, its content handed over by the token.
+  if (isOwnRender(request.headers)) {
+    const handed = new Headers();
+    for (const name of [COUNTED_HEADER, OUTCOME_HEADER]) handed.set(name, request.headers.get(name)!);
+    return withVerifyHeaders(withSecurityHeaders(request, handed));
   }
+  const gate = await countAtVerifyGate(request.headers);
+  if (gate.refused) return gate.refused;
+  const code = servesKeptPage(request) ? codeOfPath(pathname, VERIFY_PATH_PREFIX) : null;
+  // next dev recompiles the page: keep nothing there.
+  if (code === null || process.env.NODE_ENV !== "production") {
+    return withVerifyHeaders(withSecurityHeaders(request, gate.requestHeaders));
+  }
+  const outcome = await lookUpForPage(code);
+  const nonce = newNonce();
+  const page = await keptPage(pathname, code, outcome, nonce);
+  if (!page) return withVerifyHeaders(withSecurityHeaders(request, new Headers(outcomeHeaders(outcome))));
+  const response = new NextResponse(new Uint8Array(page.body.buffer, page.body.byteOffset, page.body.byteLength), {
+    status: 200,
+    headers: { "Content-Type": page.contentType, "Content-Security-Policy": contentSecurityPolicy(nonce) },
+  });
+  if (page.vary) response.headers.set("Vary", page.vary);
+  return withVerifyHeaders(response);
+}
+
+function withVerifyHeaders(response: NextResponse): NextResponse {
+  for (const [key, value] of Object.entries(VERIFY_HEADERS)) response.headers.set(key, value);
+  return response;
+}
+
+export default async function proxy(request: NextRequest, event: NextFetchEvent) {
+  if (request.nextUrl.pathname.startsWith(VERIFY_PATH_PREFIX)) return verifyPage(request);
   return withSession(request, event);
 }
 

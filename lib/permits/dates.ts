@@ -7,15 +7,31 @@ import type { PermitState } from "@/db/schema/permits";
 const ISO_DAY = /^\d{4}-\d{2}-\d{2}$/;
 const DAY_MS = 86_400_000;
 
+// One formatter per time zone: making an Intl.DateTimeFormat costs far more than using one (it was
+// about 5 % of the public status page's CPU time, docs/performance.md), and a process sees one or two
+// zones. An unknown zone counts as UTC.
+const dayFormats = new Map<string, Intl.DateTimeFormat>();
+function dayFormat(timeZone: string): Intl.DateTimeFormat {
+  let format = dayFormats.get(timeZone);
+  if (!format) {
+    const options = { year: "numeric", month: "2-digit", day: "2-digit" } as const;
+    try {
+      format = new Intl.DateTimeFormat("en-CA", { ...options, timeZone });
+    } catch {
+      format = new Intl.DateTimeFormat("en-CA", { ...options, timeZone: "UTC" });
+    }
+    if (dayFormats.size < 64) dayFormats.set(timeZone, format);
+  }
+  return format;
+}
+
 /** The calendar day `now` falls on in `timeZone` (an IANA name; an unknown one counts as UTC). */
 export function todayIn(timeZone: string, now: Date = new Date()): string {
-  let format: Intl.DateTimeFormat;
-  try {
-    format = new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" });
-  } catch {
-    format = new Intl.DateTimeFormat("en-CA", { timeZone: "UTC", year: "numeric", month: "2-digit", day: "2-digit" });
-  }
-  const parts = Object.fromEntries(format.formatToParts(now).map((p) => [p.type, p.value]));
+  const parts = Object.fromEntries(
+    dayFormat(timeZone)
+      .formatToParts(now)
+      .map((p) => [p.type, p.value]),
+  );
   return `${parts.year}-${parts.month}-${parts.day}`;
 }
 

@@ -45,9 +45,9 @@ export async function verifyGate(headers: Headers): Promise<Response | null> {
 // The proxy and the page run in one Node.js process but load separate copies of this module, so the
 // proof that the proxy counted a look-up is a random token kept on globalThis: a client cannot send
 // it, and a page served without the proxy (or by another process) does not see it and counts itself.
-const COUNTED_HEADER = "x-benchclear-verify-counted";
+export const COUNTED_HEADER = "x-benchclear-verify-counted";
 const tokenHolder = globalThis as unknown as { benchclearVerifyToken?: string };
-function countedToken(): string {
+export function countedToken(): string {
   tokenHolder.benchclearVerifyToken ??= crypto.randomUUID();
   return tokenHolder.benchclearVerifyToken;
 }

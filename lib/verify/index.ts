@@ -2,10 +2,12 @@ import "server-only";
 import { countedAtGate } from "./gate";
 import { countVerifyLookup } from "./limit";
 import { findPublicPermit, type PublicPermit } from "./queries";
+import { outcomeFromProxy } from "./rendered";
 
 // The public verification look-up behind /verify/[code]: count the look-up against the client's
 // rate limit first (unless proxy.ts already did) (so unknown codes cost the same as known ones), then read the permit. Unknown and
-// malformed codes give the same answer.
+// malformed codes give the same answer. When proxy.ts read the permit for this request already (it
+// renders the page once per content, lib/verify/rendered.ts), the page shows what it read.
 
 export type VerifyOutcome =
   { kind: "limited"; retryAfterSeconds: number } | { kind: "unknown" } | { kind: "found"; permit: PublicPermit };
@@ -15,6 +17,8 @@ export async function lookUpVerification(input: {
   headers: Headers;
   now?: Date;
 }): Promise<VerifyOutcome> {
+  const handed = outcomeFromProxy(input.headers);
+  if (handed) return handed;
   if (!countedAtGate(input.headers)) {
     const limit = await countVerifyLookup(input.headers);
     if (!limit.allowed) return { kind: "limited", retryAfterSeconds: limit.retryAfterSeconds };

@@ -1,6 +1,6 @@
 import "server-only";
 import { eq, sql } from "drizzle-orm";
-import { db } from "@/db";
+import { db, getDb, type Database } from "@/db";
 import { applicationRevisions, decisions, permits, users, type DecisionKind, type PermitState } from "@/db/schema";
 import { TIER_LABELS, type Tier } from "@/lib/hazard";
 import { effectivePermitState, todayIn } from "@/lib/permits/dates";
@@ -66,12 +66,11 @@ async function sealsCheckOut(permitId: string, fingerprint: string, nowMs = Date
   return true;
 }
 
-/** The permit behind a verification code, or null for an unknown or malformed code (told apart nowhere). */
-export async function findPublicPermit(code: string, now: Date = new Date()): Promise<PublicPermit | null> {
-  if (!isWellFormedCode(code)) return null;
-  // One round trip: the permit, the institution's time zone and the signatures together (this page
-  // is the one a busy open day loads most; docs/performance.md).
-  const [row] = await db
+// The look-up, built once per pool as a named prepared statement: the page is the one a busy open
+// day loads most, and building the query (drizzle) and planning it (PostgreSQL) on every look-up was a
+// fair part of what is left of its cost once its HTML is kept (lib/verify/rendered.ts).
+function permitByCodeQuery(database: Database) {
+  return database
     .select({
       id: permits.id,
       revisionId: permits.revisionId,
@@ -104,8 +103,24 @@ export async function findPublicPermit(code: string, now: Date = new Date()): Pr
     .from(permits)
     .innerJoin(users, eq(users.id, permits.holderId))
     .innerJoin(applicationRevisions, eq(applicationRevisions.id, permits.revisionId))
-    .where(eq(permits.verificationCode, code))
-    .limit(1);
+    .where(eq(permits.verificationCode, sql.placeholder("code")))
+    .limit(1)
+    .prepare("verify_public_permit");
+}
+let prepared: { database: Database; query: ReturnType<typeof permitByCodeQuery> } | null = null;
+function permitByCode() {
+  // A new pool (closeDb, tests) gets its own; each connection prepares the statement on first use.
+  const database = getDb();
+  if (prepared?.database !== database) prepared = { database, query: permitByCodeQuery(database) };
+  return prepared.query;
+}
+
+/** The permit behind a verification code, or null for an unknown or malformed code (told apart nowhere). */
+export async function findPublicPermit(code: string, now: Date = new Date()): Promise<PublicPermit | null> {
+  if (!isWellFormedCode(code)) return null;
+  // One round trip: the permit, the institution's time zone and the signatures together (this page
+  // is the one a busy open day loads most; docs/performance.md).
+  const [row] = await permitByCode().execute({ code });
   if (!row) return null;
 
   const timeZone = row.timeZone || DEFAULT_TIME_ZONE;

@@ -92,6 +92,47 @@ describe("GET /verify/[code]", () => {
     expect(res.text).toMatch(/<meta name="robots" content="noindex, nofollow, nocache"/);
   });
 
+  it("gives every answer its own CSP nonce, the one its scripts carry, and the same page otherwise", async () => {
+    // proxy.ts answers a repeated look-up of the same content with the HTML already rendered for it
+    // (lib/verify/rendered.ts); a nonce reused across answers would let a script injected into one
+    // page run with another's. Source: CSP Level 3 §6.7.2 (W3C), a nonce is unique per response.
+    const code = active.permit.verificationCode;
+    const [a, b] = [await verify(code), await verify(code)];
+    const nonceOf = (res: typeof a) => /'nonce-([^']+)'/.exec(res.headers.get("content-security-policy") ?? "")?.[1];
+    const [na, nb] = [nonceOf(a), nonceOf(b)];
+    expect(na).toBeTruthy();
+    expect(nb).toBeTruthy();
+    expect(na).not.toBe(nb);
+    for (const [res, nonce, other] of [
+      [a, na!, nb!],
+      [b, nb!, na!],
+    ] as const) {
+      const scripts = res.text.match(/<script\b[^>]*>/g) ?? [];
+      expect(scripts.length).toBeGreaterThan(0);
+      for (const tag of scripts) expect(tag).toContain(`nonce="${nonce}"`);
+      expect(res.text).not.toContain(other);
+    }
+    expect(a.text.split(na!).join("N")).toBe(b.text.split(nb!).join("N"));
+  });
+
+  it("never shows content a client sends along with its look-up", async () => {
+    // The page takes the permit proxy.ts read from a request header only with this process's random
+    // token; a client's own header is removed before the page sees it.
+    const forged = Buffer.from(
+      JSON.stringify({ kind: "found", permit: { number: "HV-FORGED-0001", status: "active", signers: [] } }),
+    ).toString("base64url");
+    const res = await http(`/verify/${crypto.randomBytes(32).toString("base64url")}`, {
+      headers: {
+        "x-forwarded-for": randomIp(),
+        "x-benchclear-verify-counted": "1",
+        "x-benchclear-verify-outcome": forged,
+      },
+    });
+    expect(res.status).toBe(200);
+    expect(mainText(res.text)).toContain("Permit status Unknown");
+    expect(res.text).not.toContain("HV-FORGED-0001");
+  });
+
   it("shows a revocation on the very next request", async () => {
     const fixture = await createPermitFixture({ tier: 2 });
     expect((await verify(fixture.permit.verificationCode)).main).toContain("Permit status Active");

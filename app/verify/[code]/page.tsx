@@ -9,7 +9,9 @@ import { lookUpVerification, type PublicPermit } from "@/lib/verify";
 // /verify/[code]: what a posted permit's QR code opens. Public and phone first. It shows the live
 // status in large words and colour, then only what the printed permit shows: number, holder,
 // apparatus, room, event days, audience, validity, tier, and the signers with what they signed.
-// Unknown and malformed codes get the same answer. Every request reads the database (no caching), so a revocation shows at once.
+// Unknown and malformed codes get the same answer. Every request reads the database, so a revocation
+// shows at once; proxy.ts reads it and answers with this page's HTML as already rendered for exactly
+// that content, rendering it again whenever anything it shows differs (lib/verify/rendered.ts).
 
 export const dynamic = "force-dynamic";
 
