@@ -2,6 +2,9 @@ import { z } from "zod";
 import { apparatusCreateSchema, setupTextSchema } from "@/lib/apparatus/schemas";
 import { setupFromText } from "./setup-text";
 
+// In a module of its own (no zod), for forms that map server paths before their schemas load.
+export { fieldNameOf } from "./field-name";
+
 // The registry form's schema: the set-up as typed, checked field by field as the server will check
 // it, and turned into SI numbers for the request body (which the server validates again).
 
@@ -19,8 +22,3 @@ export const apparatusFormSchema = z.object({
 });
 
 export type ApparatusFormValues = z.input<typeof apparatusFormSchema>;
-
-/** "apparatus.setup.sources[0].id" (a server path) → "apparatus.setup.sources.0.label" (a form field). */
-export function fieldNameOf(path: string): string {
-  return path.replace(/\[(\d+)\]/g, ".$1").replace(/(sources\.\d+)\.id$/, "$1.label");
-}

@@ -3,7 +3,7 @@
 // pinned, built from the form's one list of step titles, so the reviewer's choices, the applicant's
 // link to the step and the labels on every page agree. Pure: used by server pages and the form.
 
-import { FORM_STEPS, STEP_TITLES, type FormStep } from "@/lib/applications/schemas";
+import { FORM_STEPS, STEP_TITLES, type FormStep } from "@/lib/applications/form-steps";
 
 export type PinOption = { value: string; label: string };
 

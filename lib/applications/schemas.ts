@@ -2,28 +2,25 @@ import { z } from "zod";
 import { setupFromText } from "@/lib/apparatus/setup-text";
 import { setupTextSchema } from "@/lib/apparatus/schemas";
 import { setupInputSchema } from "@/lib/apparatus/setup-schema";
+import { AUDIENCES, EVENT_KINDS } from "./form-steps";
 
 // The form's names for source kinds, for screens that read an application's content (lib/review sits
 // above applications and does not import apparatus).
 export { SOURCE_KIND_LABELS } from "@/lib/apparatus/schemas";
+// The form's plain constants live in form-steps.ts (no zod), re-exported for the server's readers.
+export {
+  AUDIENCE_LABELS,
+  AUDIENCES,
+  EVENT_KIND_LABELS,
+  EVENT_KINDS,
+  FORM_STEPS,
+  STEP_TITLES,
+  type FormStep,
+} from "./form-steps";
 
 // The application's content: what the form edits as a draft and what a submission freezes into an
 // application revision (the thing decisions sign). The permit PDF, the review diff and the e-mails
 // read this shape; keep it stable and extend it only with optional fields.
-
-export const EVENT_KINDS = ["lecture_demonstration", "outreach_event", "teaching_lab", "research_bench"] as const;
-export const EVENT_KIND_LABELS: Record<(typeof EVENT_KINDS)[number], string> = {
-  lecture_demonstration: "Lecture demonstration",
-  outreach_event: "Outreach event",
-  teaching_lab: "Teaching lab",
-  research_bench: "Research bench",
-};
-export const AUDIENCES = ["none", "students", "public"] as const;
-export const AUDIENCE_LABELS: Record<(typeof AUDIENCES)[number], string> = {
-  none: "No audience",
-  students: "Students",
-  public: "Members of the public",
-};
 
 const isoDay = z.iso.date({ error: "Enter a date (YYYY-MM-DD)." });
 const shortText = (max: number, what: string) =>
@@ -176,17 +173,6 @@ export type ApplicationDraft = z.output<typeof applicationDraftSchema>;
 export type EventDraft = z.output<typeof eventDraftSchema>;
 export type ApparatusDraft = z.output<typeof apparatusDraftSchema>;
 export type ControlsDraft = z.output<typeof controlsDraftSchema>;
-
-export const FORM_STEPS = [1, 2, 3, 4, 5, 6] as const;
-export type FormStep = (typeof FORM_STEPS)[number];
-export const STEP_TITLES: Record<FormStep, string> = {
-  1: "Event",
-  2: "Apparatus",
-  3: "Hazard result",
-  4: "Controls",
-  5: "Attachments",
-  6: "Review and attest",
-};
 
 /** PATCH /api/applications/[id]/draft: the whole draft, the step the user is on, the version edited. */
 export const draftSaveSchema = z.strictObject({

@@ -53,6 +53,11 @@ export function LiveFigures({ live, prefix, rules, className }: LiveFiguresProps
             <TierBadge tier={tier} />
             <span className="sr-only">Live tier: {tierText(tier)}</span>
           </>
+        ) : live.pending ? (
+          // The application form fetches the engine when first needed; this is said, not guessed.
+          <span className="text-sm text-stone-600" data-testid="live-pending">
+            Loading the hazard calculation…
+          </span>
         ) : (
           <span className="text-sm text-stone-600">
             {problems.length > 0 ? "No figures yet." : "Add an energy source to see its figures."}

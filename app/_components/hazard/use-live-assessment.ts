@@ -12,6 +12,8 @@ export type LiveAssessment = {
   issues: PathIssue[];
   /** Indices of spark gaps left out of the figures because their fields are not complete yet. */
   omittedGaps: number[];
+  /** True while the engine is still being loaded (the application form loads it when first needed). */
+  pending?: boolean;
 };
 
 /**
@@ -20,17 +22,20 @@ export type LiveAssessment = {
  */
 export function useLiveAssessment(text: unknown, rules: TierRules): LiveAssessment {
   const key = JSON.stringify(text ?? null);
-  return useMemo(() => {
-    const parsed = setupTextSchema.safeParse(JSON.parse(key) ?? {});
-    if (!parsed.success)
-      return {
-        setup: null,
-        assessment: null,
-        issues: [{ path: [], message: "The set-up cannot be read." }],
-        omittedGaps: [],
-      };
-    return liveAssessment(parsed.data, rules);
-  }, [key, rules]);
+  return useMemo(() => liveAssessmentOfJson(key, rules), [key, rules]);
+}
+
+/** The same, for the set-up text as JSON (what the hooks memoise on). */
+export function liveAssessmentOfJson(json: string, rules: TierRules): LiveAssessment {
+  const parsed = setupTextSchema.safeParse(JSON.parse(json) ?? {});
+  if (!parsed.success)
+    return {
+      setup: null,
+      assessment: null,
+      issues: [{ path: [], message: "The set-up cannot be read." }],
+      omittedGaps: [],
+    };
+  return liveAssessment(parsed.data, rules);
 }
 
 export function liveAssessment(text: SetupText, rules: TierRules): LiveAssessment {

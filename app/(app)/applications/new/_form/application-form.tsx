@@ -5,36 +5,39 @@ import { useRouter, useSearchParams } from "next/navigation";
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { FormProvider, useForm, useWatch } from "react-hook-form";
 import { Alert } from "@/app/_components/alert";
-import { Button, ButtonLink } from "@/app/_components/button";
+import { Button } from "@/app/_components/button";
 import { Card } from "@/app/_components/card";
 import { cx } from "@/app/_components/cx";
 import { ImplausibleConfirm, implausibleFlags, implausibleKey } from "@/app/_components/hazard/implausible-confirm";
 import { QueryProvider } from "@/app/_components/hazard/query-provider";
-import { useLiveAssessment } from "@/app/_components/hazard/use-live-assessment";
-import { TierBadge } from "@/app/_components/tier-badge";
-import { fieldNameOf } from "@/lib/apparatus/form";
-import { draftToContent } from "@/lib/applications/draft";
+import type { LiveAssessment } from "@/app/_components/hazard/use-live-assessment";
+import { fieldNameOf } from "@/lib/apparatus/field-name";
+import { FORM_STEPS, STEP_TITLES, type FormStep } from "@/lib/applications/form-steps";
+import type { ApplicationDraft, AttachmentRef } from "@/lib/applications/schemas";
 import { ApiError, apiFetch, type FieldIssue } from "@/lib/client/api";
 import { applyApiIssues } from "@/lib/client/form-errors";
-import { requiredControls, type Tier, type TierRules } from "@/lib/hazard";
-import {
-  FORM_STEPS,
-  STEP_TITLES,
-  type ApplicationDraft,
-  type AttachmentRef,
-  type FormStep,
-} from "@/lib/applications/schemas";
-import { ApparatusStep, type ApparatusChoice } from "./apparatus-step";
-import { AttachmentsStep } from "./attachments-step";
-import { ControlsStep } from "./controls-step";
+import type { Tier, TierRules } from "@/lib/hazard";
+import type { ApparatusChoice } from "./apparatus-step";
 import { EventStep } from "./event-step";
 import { announceSubmitted } from "./form-subtitle";
-import { ResultStep } from "./result-step";
-import { ReturnComments, type ReturnComment } from "./return-comments";
-import { ReviewStep } from "./review-step";
+import {
+  ApparatusStep,
+  AttachmentsStep,
+  ControlsStep,
+  preloadLaterSteps,
+  ResultStep,
+  ReturnComments,
+  ReviewStep,
+  SubmittedCard,
+} from "./later-steps";
+import type { ReturnComment } from "./return-comments";
+import { StepLoading } from "./step-loading";
+import { loadStepSchemas, stepResolver } from "./step-resolver";
+import type { Submitted } from "./submitted-card";
 import type { SubmissionTraining } from "./submission-training";
-import { stepResolver } from "./step-resolver";
+import { loadHazardEngine, useHazardEngine, type HazardEngine } from "./use-hazard-engine";
 import { statusText, useAutosave } from "./use-autosave";
+import { useFirstEdit } from "./use-first-edit";
 
 export type FormInitial = {
   id: string | null;
@@ -60,7 +63,8 @@ export function ApplicationForm(props: ApplicationFormProps) {
   );
 }
 
-type Submitted = { id: string; state: string; revision: number; tier: Tier; contentHash: string };
+/** Shown while the engine downloads: nothing computed yet, and said so (never "incomplete"). */
+const PENDING: LiveAssessment = { setup: null, assessment: null, issues: [], omittedGaps: [], pending: true };
 
 function clampStep(step: number): FormStep {
   return (FORM_STEPS.includes(step as FormStep) ? step : 1) as FormStep;
@@ -96,12 +100,14 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
   const [submitError, setSubmitError] = useState<{ message: string; issues: FieldIssue[] } | null>(null);
   const [submitting, setSubmitting] = useState(false);
   const [withdrawError, setWithdrawError] = useState<string | null>(null);
+  const [checksWaiting, setChecksWaiting] = useState(false);
   const headingRef = useRef<HTMLHeadingElement>(null);
 
-  // The resolver validates the step on screen (react-hook-form takes the newest options each render).
+  // The resolver validates the step on screen (react-hook-form takes the newest options each render);
+  // its schemas are fetched when first needed (step-resolver.ts).
   const form = useForm<ApplicationDraft>({
     defaultValues: initial.draft,
-    resolver: stepResolver(step, rules),
+    resolver: stepResolver(step, rules, setChecksWaiting),
     // Checked on "Next", then on every change. Checking each field as it is left ("onTouched") put
     // a message above the next control between the press and the release of a click, so a click
     // meant for a checkbox landed beside it: moving the user's target is worse than a later message.
@@ -110,8 +116,27 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
     shouldFocusError: true,
   });
 
+  // Code the form needs only later is fetched later: the first edit starts the download of the
+  // later steps, their schemas and the hazard engine (needed from step 2 on), so the next step is
+  // usually there before it is asked for; opening the form at a later step fetches them at once.
+  const edited = useFirstEdit(form);
+  const later = edited || step !== 1;
+  useEffect(() => {
+    if (!later) return;
+    preloadLaterSteps();
+    loadStepSchemas().catch(() => {
+      // Said when a step is checked (the resolver asks again).
+    });
+  }, [later]);
+
+  const hazard = useHazardEngine(later);
+  const engine = hazard.engine;
   const setupText = useWatch({ control: form.control, name: "apparatus.setup" });
-  const live = useLiveAssessment(setupText, rules);
+  const setupKey = JSON.stringify(setupText ?? null);
+  const live = useMemo(
+    () => (engine ? engine.liveAssessmentOfJson(setupKey, rules) : PENDING),
+    [engine, setupKey, rules],
+  );
   const tier = (live.assessment?.tier ?? null) as Tier | null;
 
   // A figure that looks mistyped (engine "implausible" flag) is confirmed before the user moves on
@@ -122,12 +147,36 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
   const [askedImplausible, setAskedImplausible] = useState(false);
   const implausibleConfirmed = implausible.length === 0 || confirmedImplausible === implausibleNow;
   const confirmRef = useRef<HTMLInputElement>(null);
+  // The box is focused once it is on screen (after the engine arrives, when "Next" waited for it).
+  const [askCount, setAskCount] = useState(0);
   const askToConfirm = () => {
     setAskedImplausible(true);
+    setAskCount((n) => n + 1);
+  };
+  useEffect(() => {
+    if (askCount === 0) return;
     confirmRef.current?.focus();
     confirmRef.current?.scrollIntoView({ block: "center" });
-  };
-  const required = useMemo(() => (tier === null ? [] : requiredControls(tier, rules)), [tier, rules]);
+  }, [askCount]);
+  /** Whether a figure that looks mistyped is still to be confirmed; waits for the engine if need be. */
+  async function implausibleUnconfirmed(): Promise<boolean> {
+    if (engine) return !implausibleConfirmed;
+    let loaded: HazardEngine;
+    try {
+      loaded = await loadHazardEngine();
+    } catch {
+      // The hook says so on the step (with "Try again"); moving on waits for the check.
+      return true;
+    }
+    const flags = implausibleFlags(
+      loaded.liveAssessmentOfJson(JSON.stringify(form.getValues("apparatus.setup") ?? null), rules).assessment,
+    );
+    return flags.length > 0 && confirmedImplausible !== implausibleKey(flags);
+  }
+  const required = useMemo(
+    () => (tier === null || !engine ? [] : engine.requiredControls(tier, rules)),
+    [tier, rules, engine],
+  );
   const onCreated = useCallback(
     (id: string) => {
       setAppId(id);
@@ -194,16 +243,10 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
   }
 
   const goNext = (event: React.FormEvent) =>
-    form.handleSubmit(() => {
-      if (step === 2 && !implausibleConfirmed) return askToConfirm();
+    form.handleSubmit(async () => {
+      if (step === 2 && (await implausibleUnconfirmed())) return askToConfirm();
       return goTo(Math.min(6, step + 1) as FormStep);
     })(event);
-
-  const draftNow = useWatch({ control: form.control }) as ApplicationDraft;
-  const outstanding = useMemo(
-    () => (step === 6 ? draftToContent(draftNow, { rules, attachments }).issues : []),
-    [step, draftNow, rules, attachments],
-  );
 
   // On the last step, each named operator's training as the server checks it on the saved draft
   // (GET /api/applications/[id]/training): saved first, so the check sees what is on screen. Shown
@@ -231,7 +274,7 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
   const submit = (event: React.FormEvent) => form.handleSubmit(submitNow)(event);
 
   async function submitNow() {
-    if (!implausibleConfirmed) return askToConfirm();
+    if (await implausibleUnconfirmed()) return askToConfirm();
     setSubmitError(null);
     setSubmitting(true);
     try {
@@ -281,30 +324,7 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
   }
 
   if (submitted) {
-    return (
-      <Card>
-        <div className="flex flex-col gap-4" data-testid="submitted">
-          <Alert tone="success" title="Submitted for review" live>
-            Revision {submitted.revision} was submitted
-            {submitted.state === "approved"
-              ? " and self-certified (its tier needs no review)."
-              : "; the reviewers of your department have been told."}
-          </Alert>
-          <p className="flex items-center gap-2 text-sm text-stone-800">
-            Tier as computed on the server: <TierBadge tier={submitted.tier} />
-          </p>
-          <div className="flex flex-wrap gap-2">
-            <ButtonLink href={`/applications/${submitted.id}`}>Open the application</ButtonLink>
-            <ButtonLink href="/applications" variant="secondary">
-              All my applications
-            </ButtonLink>
-          </div>
-          {submitted && initial.returnComments && initial.id && (
-            <ReturnComments applicationId={initial.id} comments={initial.returnComments} onGoTo={() => {}} history />
-          )}
-        </div>
-      </Card>
-    );
+    return <SubmittedCard submitted={submitted} applicationId={initial.id} returnComments={initial.returnComments} />;
   }
 
   return (
@@ -439,19 +459,33 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
                 }}
               />
             )}
-            {step === 3 && <ResultStep live={live} rules={rules} />}
-            {step === 4 && <ControlsStep tier={tier} required={required} assessment={live.assessment} />}
-            {step === 5 && <AttachmentsStep applicationId={appId} initial={attachments} onChange={setAttachments} />}
-            {step === 6 && (
-              <ReviewStep
-                live={live}
-                required={required}
-                attachments={attachments}
-                issues={outstanding}
-                training={training}
-                onGoTo={(s) => void goTo(s)}
-              />
+            {hazard.failed && step !== 1 && step !== 5 && (
+              <Alert tone="error" title="The hazard calculation did not download" live className="mb-4">
+                <p>Check the connection and try again; nothing you typed is lost.</p>
+                <Button size="sm" variant="secondary" className="mt-2" onClick={hazard.retry}>
+                  Try again
+                </Button>
+              </Alert>
             )}
+            {(step === 3 || step === 4 || step === 6) && live.pending ? (
+              !hazard.failed && <StepLoading what="the hazard calculation" />
+            ) : (
+              <>
+                {step === 3 && <ResultStep live={live} rules={rules} />}
+                {step === 4 && <ControlsStep tier={tier} required={required} assessment={live.assessment} />}
+                {step === 6 && (
+                  <ReviewStep
+                    live={live}
+                    required={required}
+                    attachments={attachments}
+                    rules={rules}
+                    training={training}
+                    onGoTo={(s) => void goTo(s)}
+                  />
+                )}
+              </>
+            )}
+            {step === 5 && <AttachmentsStep applicationId={appId} initial={attachments} onChange={setAttachments} />}
           </Card>
 
           {(step === 2 || (step === 6 && !implausibleConfirmed)) && implausible.length > 0 && (
@@ -469,6 +503,12 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
           )}
 
           <div aria-live="polite" className="mt-4">
+            {checksWaiting && <p className="text-sm text-stone-700">Loading the checks for this step…</p>}
+            {form.formState.errors.root?.message && (
+              <Alert tone="error" title="Not checked">
+                {form.formState.errors.root.message}
+              </Alert>
+            )}
             {submitError && (
               <Alert tone="error" title="Not submitted">
                 <p>{submitError.message}</p>

@@ -3,13 +3,8 @@
 import { useFieldArray, useFormContext, useFormState } from "react-hook-form";
 import { Button } from "@/app/_components/button";
 import { controlClasses, Field, FieldShell } from "@/app/_components/field";
-import {
-  AUDIENCE_LABELS,
-  AUDIENCES,
-  EVENT_KIND_LABELS,
-  EVENT_KINDS,
-  type ApplicationDraft,
-} from "@/lib/applications/schemas";
+import { AUDIENCE_LABELS, AUDIENCES, EVENT_KIND_LABELS, EVENT_KINDS } from "@/lib/applications/form-steps";
+import type { ApplicationDraft } from "@/lib/applications/schemas";
 import { messageAt } from "./errors";
 import { PersonField } from "./person-field";
 

@@ -1,14 +1,14 @@
 "use client";
 
+import { useMemo } from "react";
 import { useFormContext, useFormState, useWatch } from "react-hook-form";
 import { AboutFigures } from "@/app/_components/about-figures";
 import { headlineFigures } from "@/app/_components/hazard/figures";
 import type { LiveAssessment } from "@/app/_components/hazard/use-live-assessment";
 import { TierBadge } from "@/app/_components/tier-badge";
-import { ATTESTATION_TEXT } from "@/lib/applications/draft";
+import { ATTESTATION_TEXT, draftToContent } from "@/lib/applications/draft";
 import { formatBytes } from "@/lib/applications/limits";
-import type { FieldIssue } from "@/lib/client/api";
-import type { ControlRule, Tier } from "@/lib/hazard";
+import type { ControlRule, Tier, TierRules } from "@/lib/hazard";
 import {
   AUDIENCE_LABELS,
   EVENT_KIND_LABELS,
@@ -25,8 +25,9 @@ type ReviewStepProps = {
   live: LiveAssessment;
   required: readonly ControlRule[];
   attachments: readonly AttachmentRef[];
-  /** What still stands between the draft and a submission, from the same check the server runs. */
-  issues: readonly FieldIssue[];
+  /** The tier rules in force: what still stands between the draft and a submission is checked here
+   * with the same code the server runs on submission. */
+  rules: TierRules;
   /** Each named operator's training as the server checked it (undefined until it answers). */
   training?: SubmissionTraining;
   onGoTo: (step: FormStep) => void;
@@ -47,10 +48,11 @@ function Row({ label, children }: { label: string; children: React.ReactNode }) 
   );
 }
 
-export function ReviewStep({ live, required, attachments, issues, training, onGoTo }: ReviewStepProps) {
+export function ReviewStep({ live, required, attachments, rules, training, onGoTo }: ReviewStepProps) {
   const { control, register } = useFormContext<ApplicationDraft>();
   const { errors } = useFormState({ control });
   const draft = useWatch({ control }) as ApplicationDraft;
+  const issues = useMemo(() => draftToContent(draft, { rules, attachments }).issues, [draft, rules, attachments]);
   const event = draft.event;
   const apparatus = draft.apparatus;
   const outstanding = issues.filter((i) => !i.path.startsWith("attestation"));

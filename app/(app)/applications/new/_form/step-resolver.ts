@@ -1,43 +1,47 @@
-import { zodResolver } from "@hookform/resolvers/zod";
 import type { Resolver } from "react-hook-form";
-import { z } from "zod";
-import { draftAssessment } from "@/lib/applications/draft";
-import { requiredControls, type TierRules } from "@/lib/hazard";
-import {
-  apparatusStepSchema,
-  attestationStepSchema,
-  controlsStepSchema,
-  eventStepSchema,
-  type ApplicationDraft,
-  type FormStep,
-} from "@/lib/applications/schemas";
+import type { TierRules } from "@/lib/hazard";
+import type { ApplicationDraft } from "@/lib/applications/schemas";
+import type { FormStep } from "@/lib/applications/form-steps";
 
 // The form's resolver validates only the step on screen, with the same step schemas the server runs
-// on submission. It keeps the values as typed (raw), so moving on never rewrites what was written.
+// on submission (step-schemas.ts). Those schemas and zod are the larger part of the form's code and
+// no step needs them before its first check, so they are fetched with import() on the first edit
+// (warmStepSchemas) or, at the latest, on the first "Next"; the server checks everything again.
 
-export function stepSchema(step: FormStep, draft: ApplicationDraft, rules: TierRules) {
-  switch (step) {
-    case 1:
-      return z.object({ event: eventStepSchema });
-    case 2:
-      return z.object({ apparatus: apparatusStepSchema });
-    case 4: {
-      const assessment = draftAssessment(draft, rules);
-      return z.object({ controls: controlsStepSchema(assessment ? requiredControls(assessment.tier, rules) : []) });
-    }
-    case 6:
-      return z.object({ attestation: attestationStepSchema });
-    default:
-      return null;
-  }
+type StepSchemas = typeof import("./step-schemas");
+
+let loading: Promise<StepSchemas> | null = null;
+
+/** Starts (or joins) the download of the step schemas; a failed download is tried again next time. */
+export function loadStepSchemas(): Promise<StepSchemas> {
+  loading ??= import("./step-schemas").catch((error: unknown) => {
+    loading = null;
+    throw error;
+  });
+  return loading;
 }
 
-export function stepResolver(step: FormStep, rules: TierRules): Resolver<ApplicationDraft> {
+/** The message shown (as an error of the whole form) when the checks could not be downloaded. */
+export const CHECKS_NOT_LOADED =
+  "This step could not be checked: the form's checks did not download. Check the connection and try again; nothing you typed is lost.";
+
+export function stepResolver(
+  step: FormStep,
+  rules: TierRules,
+  onWaiting?: (waiting: boolean) => void,
+): Resolver<ApplicationDraft> {
   return async (values, context, options) => {
-    const schema = stepSchema(step, values, rules);
-    if (!schema) return { values, errors: {} };
-    const resolve = zodResolver(schema, undefined, { raw: true }) as unknown as Resolver<ApplicationDraft>;
-    const result = await resolve(values, context, options);
-    return Object.keys(result.errors).length > 0 ? { values: {}, errors: result.errors } : { values, errors: {} };
+    if (step === 3 || step === 5) return { values, errors: {} };
+    let schemas: StepSchemas;
+    const timer = onWaiting ? setTimeout(() => onWaiting(true), 150) : undefined;
+    try {
+      schemas = await loadStepSchemas();
+    } catch {
+      return { values: {}, errors: { root: { type: "load", message: CHECKS_NOT_LOADED } } };
+    } finally {
+      clearTimeout(timer);
+      onWaiting?.(false);
+    }
+    return schemas.resolveStep(step, rules, values, context, options);
   };
 }

@@ -1,0 +1,4 @@
+/** "apparatus.setup.sources[0].id" (a server path) → "apparatus.setup.sources.0.label" (a form field). */
+export function fieldNameOf(path: string): string {
+  return path.replace(/\[(\d+)\]/g, ".$1").replace(/(sources\.\d+)\.id$/, "$1.label");
+}
