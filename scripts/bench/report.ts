@@ -2,6 +2,9 @@
 // marked met or not.
 import type { BenchResult } from "./index";
 
+/** Issue 15: first-load JS of the application form, gzip kB (also a failure of the run, bench/index.ts). */
+export const FORM_JS_BUDGET_KB = 190;
+
 const num = (x: number) => (Number.isFinite(x) ? x.toLocaleString("en-GB") : "—");
 const yes = (ok: boolean) => (ok ? "met" : "**not met**");
 
@@ -99,7 +102,7 @@ export function renderMarkdown(r: BenchResult): string {
     );
     out.push(`| sign-in JS ≤ runtime + 10 kB | ${by("/sign-in")} kB | ${yes(by("/sign-in") <= r.js.runtimeKb + 10)} |`);
     out.push(
-      `| application form JS ≤ 190 kB | ${by("/applications/new")} kB | ${yes(by("/applications/new") <= 190)} |`,
+      `| application form JS ≤ ${FORM_JS_BUDGET_KB} kB | ${by("/applications/new")} kB | ${yes(by("/applications/new") <= FORM_JS_BUDGET_KB)} |`,
     );
   }
   if (r.pdf) {
