@@ -1,5 +1,5 @@
 import type { NextAuthConfig } from "next-auth";
-import { SESSION_ABSOLUTE_SECONDS, SESSION_IDLE_SECONDS } from "@/lib/auth/session-policy";
+import { SESSION_ABSOLUTE_SECONDS, sessionTokenState } from "@/lib/auth/session-policy";
 
 // The part of the Auth.js configuration that proxy.ts can load: no database, no argon2. The JWT
 // carries only the user's id, the session version it was issued under and two timestamps; roles,
@@ -53,10 +53,10 @@ export const authConfig = {
         token.lastSeen = now;
         return token;
       }
-      const signedInAt = token.signedInAt ?? 0;
-      const lastSeen = token.lastSeen ?? 0;
-      if (now - signedInAt > SESSION_ABSOLUTE_SECONDS * 1000) return null;
-      if (now - lastSeen > SESSION_IDLE_SECONDS * 1000) return null;
+      // Past the absolute or idle limit: Auth.js clears the cookie. Otherwise Auth.js re-issues the
+      // cookie (it always does when it runs), so its last-seen time moves on. proxy.ts runs Auth.js
+      // only when that is due, at most once a minute (lib/auth/session-cookie.ts).
+      if (sessionTokenState(token, now) === "ended") return null;
       token.lastSeen = now;
       return token;
     },

@@ -1,7 +1,8 @@
 import NextAuth from "next-auth";
 import { NextResponse, type NextFetchEvent, type NextRequest } from "next/server";
 import { ASKED_PATH_HEADER, authConfig } from "./auth.config";
-import { SESSION_HEADER, sessionHeaderValue } from "@/lib/auth/request-session";
+import { SESSION_HEADER, sessionHeaderValue, type RequestSession } from "@/lib/auth/request-session";
+import { freshSession } from "@/lib/auth/session-cookie";
 import { COUNTED_HEADER, countAtVerifyGate, VERIFY_HEADERS, VERIFY_PATH_PREFIX } from "@/lib/verify/gate";
 import {
   codeOfPath,
@@ -67,13 +68,12 @@ function withSecurityHeaders(request: NextRequest, extra?: Headers): NextRespons
   return response;
 }
 
-// Every page but the status page: Auth.js reads (and refreshes) the session cookie; signed-out
-// visitors of signed-in pages go to /sign-in.
-const withSession = auth(async (request) => {
+/** Signed-out visitors of signed-in pages go to /sign-in; everyone else on, with their session. */
+function afterSession(request: NextRequest, session: RequestSession | null): NextResponse {
   const { pathname } = request.nextUrl;
   const asked = askedPath(request.nextUrl);
   const isPublic = PUBLIC_PREFIXES.some((p) => pathname === p.replace(/\/$/, "") || pathname.startsWith(p));
-  if (!isPublic && !request.auth?.user?.id) {
+  if (!isPublic && !session) {
     const url = new URL("/sign-in", request.nextUrl);
     if (asked !== "/") url.searchParams.set("from", asked);
     return NextResponse.redirect(url);
@@ -81,14 +81,17 @@ const withSession = auth(async (request) => {
   // The page asked for, for the page's own guard: a session the proxy let through can still be
   // refused there (a bumped session version, a disabled account), and the sign-in it sends the person
   // to should lead back here, query included (lib/auth/guards.ts requirePageUser). And the session
-  // Auth.js just read, for the page or route handler (lib/auth/request-session.ts): it is not
-  // decrypted a second time there.
-  const user = request.auth?.user?.id ? request.auth : null;
-  const extra = new Headers({
-    [ASKED_PATH_HEADER]: asked,
-    [SESSION_HEADER]: sessionHeaderValue(user ? { id: user.user.id, sv: user.sv, authAt: user.authAt } : null),
-  });
+  // just read, for the page or route handler (lib/auth/request-session.ts): it is not decrypted a
+  // second time there.
+  const extra = new Headers({ [ASKED_PATH_HEADER]: asked, [SESSION_HEADER]: sessionHeaderValue(session) });
   return withSecurityHeaders(request, extra);
+}
+
+// A session cookie due for re-issue (or none, or one past a limit): Auth.js reads it, re-issues or
+// clears it.
+const withSession = auth(async (request) => {
+  const user = request.auth?.user?.id ? request.auth : null;
+  return afterSession(request, user ? { id: user.user.id, sv: user.sv, authAt: user.authAt } : null);
 }) as unknown as (request: NextRequest, event: NextFetchEvent) => Promise<Response>;
 
 // The public verification page skips Auth.js (decrypting a session cookie its visitors rarely have
@@ -131,6 +134,10 @@ function withVerifyHeaders(response: NextResponse): NextResponse {
 
 export default async function proxy(request: NextRequest, event: NextFetchEvent) {
   if (request.nextUrl.pathname.startsWith(VERIFY_PATH_PREFIX)) return verifyPage(request);
+  // A cookie re-issued less than a minute ago is read without Auth.js and not sent back
+  // (lib/auth/session-cookie.ts); Auth.js handles every other case as before.
+  const fresh = await freshSession(request.cookies, request.headers);
+  if (fresh) return afterSession(request, fresh);
   return withSession(request, event);
 }
 
