@@ -69,8 +69,9 @@ export const permits = pgTable(
     unique("permit_year_seq_key").on(t.year, t.seq),
     index("permit_holder_idx").on(t.holderId),
     index("permit_valid_to_idx").on(t.state, t.validTo),
-    // The permit list's order (lib/permits/queries.ts listPermits).
-    index("permit_list_order_idx").on(t.validTo, t.issuedAt.desc(), t.id),
+    // The permit list's order (lib/permits/queries.ts listPermits), with state and tier after it so
+    // a page's ids and the capped count are read from the index alone (migration 0019).
+    index("permit_list_order_idx").on(t.validTo, t.issuedAt.desc(), t.id, t.state, t.tier),
     // The list's count with a tier filter, read from the index alone.
     index("permit_tier_state_idx").on(t.tier, t.state, t.validTo),
     check("permit_window", sql`${t.validFrom} <= ${t.validTo}`),

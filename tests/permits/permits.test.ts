@@ -316,6 +316,37 @@ describe("who sees which permits", () => {
     expect((await listPermits(asActor(team.instructor), { state: "active" }, later)).total).toBe(0);
   });
 
+  it("stops counting at the cap, says there are more, and still pages to the last permit", async () => {
+    const team = await createTeam();
+    const issued = [];
+    for (let i = 0; i < 5; i++) issued.push((await issuedPermit(team)).permit);
+    await revokePermit(asActor(team.officer), issued[0].id, {
+      expectedVersion: issued[0].version,
+      password: TEST_PASSWORD,
+      reason: "Paging check.",
+    });
+    const holder = asActor(team.instructor);
+    const seen: string[] = [];
+    const pages = [];
+    for (let page = 1; page <= 3; page++) {
+      const list = await listPermits(holder, { page, pageSize: 2, countCap: 3 });
+      pages.push({ total: list.total, more: list.more, hasNext: list.hasNext, rows: list.rows.length });
+      seen.push(...list.rows.map((r) => r.id));
+    }
+    // Five permits, the count stopping at three: "more than 3" on every page, and a next page while
+    // one is left (2 + 2 + 1 rows, the revoked one last).
+    expect(pages).toEqual([
+      { total: 3, more: true, hasNext: true, rows: 2 },
+      { total: 3, more: true, hasNext: true, rows: 2 },
+      { total: 3, more: true, hasNext: false, rows: 1 },
+    ]);
+    expect(new Set(seen)).toEqual(new Set(issued.map((p) => p.id)));
+    expect(seen.at(-1)).toBe(issued[0].id);
+    // Under the cap the count is exact.
+    const exact = await listPermits(holder, { pageSize: 2, countCap: 5 });
+    expect([exact.total, exact.more]).toEqual([5, false]);
+  });
+
   it("lists a permit ending within 30 days among the expiring ones", async () => {
     const team = await createTeam();
     const { permit } = await issuedPermit(team);

@@ -149,6 +149,8 @@ export default async function PermitsPage({
           page={list.page}
           pageSize={list.pageSize}
           total={list.total}
+          more={list.more}
+          hasNext={list.hasNext}
           href={(p) => href(filters, p)}
           noun={["permit", "permits"]}
         />

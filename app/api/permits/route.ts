@@ -12,6 +12,7 @@ const querySchema = z.object({
 });
 
 export const GET = route({ access: "user", query: querySchema }, async ({ user, query }) => {
-  const { rows, total, page, pageSize } = await listPermits(user, query);
-  return { permits: rows, total, page, pageSize };
+  const { rows, total, more, hasNext, page, pageSize } = await listPermits(user, query);
+  // total stops at PERMIT_COUNT_CAP (lib/permits/queries.ts); totalIsAtLeast says there are more.
+  return { permits: rows, total, totalIsAtLeast: more, hasNext, page, pageSize };
 });
