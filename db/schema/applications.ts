@@ -87,6 +87,11 @@ export const applications = pgTable(
     index("application_waiting_idx")
       .on(t.waitingSince.asc().nullsLast(), t.seq)
       .where(sql`${t.state} IN ('submitted', 'in_review')`),
+    // Waiting applications by the step they wait at and their tier: the queue's role tests and capped
+    // counts read their candidates here (migration 0020).
+    index("application_waiting_step_idx")
+      .on(t.chainStep, t.tier)
+      .where(sql`${t.state} IN ('submitted', 'in_review')`),
     index("application_amendment_idx")
       .on(t.amendmentOfPermitId)
       .where(sql`${t.amendmentOfPermitId} IS NOT NULL`),

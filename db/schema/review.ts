@@ -58,6 +58,8 @@ export const decisions = pgTable(
   },
   (t) => [
     index("decision_application_idx").on(t.applicationId, t.signedAt),
+    // Separation of duties in the queue: "not a revision this person signed" (migration 0020).
+    index("decision_signer_idx").on(t.signerId, t.revisionId),
     // One signature per chain step of a revision: a second approval of the same step cannot exist.
     unique("decision_revision_step_key").on(t.revisionId, t.step),
   ],
