@@ -268,4 +268,57 @@ describe("the six-step application form, in a real browser", () => {
     expect(await titleOf()).toBe("Belt generator for the open day, hall 3");
     await context.close();
   });
+
+  it(
+    "fetches the checks and later steps when first needed, says so while they download, and when they cannot",
+    {
+      timeout: 120_000,
+    },
+    async () => {
+      // Issue 15's budget: step 1 loads without zod, the hazard engine and steps 2–6; they are fetched
+      // after the first edit. Held here (every script chunk asked for once the page has loaded), so the
+      // wait is long enough to be seen; then refused, as on a dropped connection.
+      const set = await createRoleSet();
+      const chunks = "**/_next/static/chunks/**";
+      const context = await newContext(browser);
+      let page = await context.newPage();
+      await signInWithForm(page, set.instructor.email, TEST_PASSWORD);
+      await page.goto("/applications/new");
+      await page.waitForLoadState("networkidle");
+      let release = () => {};
+      const held = new Promise<void>((resolve) => (release = resolve));
+      const asked: string[] = [];
+      await page.route(chunks, async (route) => {
+        asked.push(route.request().url());
+        await held;
+        await route.continue();
+      });
+      await page.getByLabel("Title").fill("Belt generator for the open day");
+      await expect.poll(() => asked.length).toBeGreaterThan(0);
+      await page.getByRole("button", { name: "Next: Apparatus" }).click();
+      await expect.poll(() => page.getByText("Loading the checks for this step…").isVisible()).toBe(true);
+      release();
+      // The same messages as the server's schemas give, next to their fields.
+      await expect.poll(() => page.getByText("Choose the kind of event.").isVisible()).toBe(true);
+      expect(await page.getByText("Loading the checks for this step…").count()).toBe(0);
+      expect(await stepHeading(page)).toBe("Step 1 of 6: Event");
+      await page.close();
+
+      // A new page (its own copy of the code, the same session).
+      page = await context.newPage();
+      await page.goto("/applications/new");
+      await page.waitForLoadState("networkidle");
+      await page.route(chunks, (route) => route.abort("connectionrefused"));
+      await page.getByLabel("Title").fill("Belt generator for the open day");
+      await page.getByRole("button", { name: "Next: Apparatus" }).click();
+      await expect
+        .poll(() => page.getByText(/This step could not be checked: the form's checks did not download/).isVisible(), {
+          timeout: 10_000,
+        })
+        .toBe(true);
+      expect(await stepHeading(page)).toBe("Step 1 of 6: Event");
+      expect(await page.getByLabel("Title").inputValue()).toBe("Belt generator for the open day");
+      await context.close();
+    },
+  );
 });

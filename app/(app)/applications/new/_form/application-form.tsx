@@ -165,7 +165,7 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
     try {
       loaded = await loadHazardEngine();
     } catch {
-      // The hook says so on the step (with "Try again"); moving on waits for the check.
+      // The hook says so on the step (with "Reload the page"); moving on waits for the check.
       return true;
     }
     const flags = implausibleFlags(
@@ -461,9 +461,9 @@ function ApplicationFormInner({ initial, rules, choices }: ApplicationFormProps)
             )}
             {hazard.failed && step !== 1 && step !== 5 && (
               <Alert tone="error" title="The hazard calculation did not download" live className="mb-4">
-                <p>Check the connection and try again; nothing you typed is lost.</p>
-                <Button size="sm" variant="secondary" className="mt-2" onClick={hazard.retry}>
-                  Try again
+                <p>Reload the page once the connection is back; the draft saves itself as you type.</p>
+                <Button size="sm" variant="secondary" className="mt-2" onClick={() => window.location.reload()}>
+                  Reload the page
                 </Button>
               </Alert>
             )}

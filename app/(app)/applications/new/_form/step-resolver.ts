@@ -12,7 +12,10 @@ type StepSchemas = typeof import("./step-schemas");
 
 let loading: Promise<StepSchemas> | null = null;
 
-/** Starts (or joins) the download of the step schemas; a failed download is tried again next time. */
+/**
+ * Starts (or joins) the download of the step schemas. The bundler's runtime tries a failed chunk once
+ * more by itself and then keeps the failure for the page's life, so the remedy offered is a reload.
+ */
 export function loadStepSchemas(): Promise<StepSchemas> {
   loading ??= import("./step-schemas").catch((error: unknown) => {
     loading = null;
@@ -23,7 +26,7 @@ export function loadStepSchemas(): Promise<StepSchemas> {
 
 /** The message shown (as an error of the whole form) when the checks could not be downloaded. */
 export const CHECKS_NOT_LOADED =
-  "This step could not be checked: the form's checks did not download. Check the connection and try again; nothing you typed is lost.";
+  "This step could not be checked: the form's checks did not download. Reload the page once the connection is back; the draft saves itself as you type.";
 
 export function stepResolver(
   step: FormStep,

@@ -12,7 +12,7 @@ export type HazardEngine = typeof import("./live-engine");
 let loading: Promise<HazardEngine> | null = null;
 let loaded: HazardEngine | null = null;
 
-/** Starts (or joins) the download; a failed download is tried again on the next call. */
+/** Starts (or joins) the download (a failure is kept by the bundler's runtime: the form offers a reload). */
 export function loadHazardEngine(): Promise<HazardEngine> {
   loading ??= import("./live-engine").then(
     (engine) => (loaded = engine),
@@ -24,12 +24,11 @@ export function loadHazardEngine(): Promise<HazardEngine> {
   return loading;
 }
 
-export type HazardEngineState = { engine: HazardEngine | null; failed: boolean; retry: () => void };
+export type HazardEngineState = { engine: HazardEngine | null; failed: boolean };
 
 export function useHazardEngine(needed: boolean): HazardEngineState {
   const [engine, setEngine] = useState<HazardEngine | null>(loaded);
   const [failed, setFailed] = useState(false);
-  const [attempt, setAttempt] = useState(0);
   useEffect(() => {
     if (!needed || engine) return;
     let current = true;
@@ -44,13 +43,6 @@ export function useHazardEngine(needed: boolean): HazardEngineState {
     return () => {
       current = false;
     };
-  }, [needed, engine, attempt]);
-  return {
-    engine,
-    failed: failed && !engine,
-    retry: () => {
-      setFailed(false);
-      setAttempt((n) => n + 1);
-    },
-  };
+  }, [needed, engine]);
+  return { engine, failed: failed && !engine };
 }
