@@ -1,5 +1,6 @@
 import "server-only";
 import { and, desc, eq } from "drizzle-orm";
+import { cache } from "react";
 import { db } from "@/db";
 import { ruleSets, users } from "@/db/schema";
 import type { DbOrTx } from "@/lib/audit";
@@ -69,8 +70,18 @@ export async function chainRulesFor(version: number | null | undefined, tx: DbOr
   return rules;
 }
 
-/** Every chain rules version (the built-in one included), for queries that span applications. */
+const allChainRulesOncePerRender = cache(() => readAllChainRules(db));
+
+/**
+ * Every chain rules version in use (the built-in one included), read once per page render (React's
+ * cache(): the dashboard's queue card and oldest-wait line each asked); a read in a transaction, a
+ * route handler or a job reads the table.
+ */
 export async function allChainRules(tx: DbOrTx = db): Promise<Map<number, ChainRules>> {
+  return tx === db ? allChainRulesOncePerRender() : readAllChainRules(tx);
+}
+
+async function readAllChainRules(tx: DbOrTx): Promise<Map<number, ChainRules>> {
   const rows = await tx
     .select({ version: ruleSets.version, rules: ruleSets.rules })
     .from(ruleSets)

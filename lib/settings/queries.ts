@@ -1,5 +1,6 @@
 import "server-only";
 import { sql } from "drizzle-orm";
+import { cache } from "react";
 import { db } from "@/db";
 import { institutionSettings, type EmergencyContact } from "@/db/schema";
 import type { DbOrTx } from "@/lib/audit";
@@ -31,7 +32,17 @@ export type InstitutionSettings = {
   emergencyContacts: EmergencyContact[];
 };
 
+// Read once per page render: the dashboard's sections each asked for the time zone (seven identical
+// reads per request, docs/performance.md). React's cache() keeps a value for one server render only
+// and passes through everywhere else (route handlers, jobs, tests), so a change is seen by the next
+// request; a read inside a transaction is never shared.
+const readOncePerRender = cache(() => readSettingsRow(db));
+
 export async function readInstitutionSettings(tx: DbOrTx = db): Promise<InstitutionSettings> {
+  return tx === db ? readOncePerRender() : readSettingsRow(tx);
+}
+
+async function readSettingsRow(tx: DbOrTx): Promise<InstitutionSettings> {
   const [row] = await tx
     .select({
       name: institutionSettings.name,
