@@ -95,35 +95,41 @@ export function secondsUntilAllowed(input: {
 
 type CounterRow = { previous: number | string | null; current: number | string | null; elapsed: number | string };
 
+// The two statements, written once: $1 the injected clock (null: the database's), $2 the key, $3 the
+// window in seconds. One statement each, so the window start is computed from the same clock reading
+// as the elapsed time. Sent as named prepared statements straight to the pool: the public status
+// page counts every look-up, and building the query text (drizzle) and planning it (PostgreSQL) each
+// time was a visible part of that page's cost (docs/performance.md).
+const CLOCK = `clock AS (SELECT coalesce($1::timestamptz, now()) AS t)`;
+const WINDOW_START = `to_timestamp(floor(extract(epoch FROM (SELECT t FROM clock)) / $3::int) * $3::int)`;
+const PREVIOUS = `(SELECT hits FROM rate_limit_counter
+    WHERE key = $2 AND window_start = ${WINDOW_START} - make_interval(secs => $3::int)) AS previous`;
+const ELAPSED = `extract(epoch FROM (SELECT t FROM clock)) - extract(epoch FROM ${WINDOW_START}) AS elapsed`;
+const STATEMENTS = {
+  hit: {
+    name: "ratelimit_hit",
+    text: `WITH ${CLOCK},
+  bumped AS (
+    INSERT INTO rate_limit_counter (key, window_start, hits)
+    VALUES ($2, ${WINDOW_START}, 1)
+    ON CONFLICT (key, window_start) DO UPDATE SET hits = rate_limit_counter.hits + 1
+    RETURNING hits
+  )
+  SELECT (SELECT hits FROM bumped) AS current, ${PREVIOUS}, ${ELAPSED}`,
+  },
+  peek: {
+    name: "ratelimit_peek",
+    text: `WITH ${CLOCK}
+  SELECT (SELECT hits FROM rate_limit_counter WHERE key = $2 AND window_start = ${WINDOW_START}) AS current,
+    ${PREVIOUS}, ${ELAPSED}`,
+  },
+} as const;
+
 async function read(key: string, rule: RateLimitRule, mode: "hit" | "peek", now?: Date): Promise<RateLimitResult> {
   checkRule(key, rule);
   const w = rule.windowSeconds;
   const at = now ? now.toISOString() : null;
-  // One statement: the window start is computed from the same clock reading as the elapsed time.
-  const clock = sql`(SELECT coalesce(${at}::timestamptz, now()) AS t)`;
-  const windowStart = sql`to_timestamp(floor(extract(epoch FROM (SELECT t FROM clock)) / ${w}) * ${w})`;
-  const result =
-    mode === "hit"
-      ? await db.execute<CounterRow>(sql`
-          WITH clock AS ${clock},
-          bumped AS (
-            INSERT INTO rate_limit_counter (key, window_start, hits)
-            VALUES (${key}, ${windowStart}, 1)
-            ON CONFLICT (key, window_start) DO UPDATE SET hits = rate_limit_counter.hits + 1
-            RETURNING hits
-          )
-          SELECT
-            (SELECT hits FROM bumped) AS current,
-            (SELECT hits FROM rate_limit_counter
-              WHERE key = ${key} AND window_start = ${windowStart} - make_interval(secs => ${w})) AS previous,
-            extract(epoch FROM (SELECT t FROM clock)) - extract(epoch FROM ${windowStart}) AS elapsed`)
-      : await db.execute<CounterRow>(sql`
-          WITH clock AS ${clock}
-          SELECT
-            (SELECT hits FROM rate_limit_counter WHERE key = ${key} AND window_start = ${windowStart}) AS current,
-            (SELECT hits FROM rate_limit_counter
-              WHERE key = ${key} AND window_start = ${windowStart} - make_interval(secs => ${w})) AS previous,
-            extract(epoch FROM (SELECT t FROM clock)) - extract(epoch FROM ${windowStart}) AS elapsed`);
+  const result = await db.$client.query<CounterRow>({ ...STATEMENTS[mode], values: [at, key, w] });
   const row = result.rows[0];
   // A peek answers for a hit made now, without counting it.
   const current = Number(row?.current ?? 0) + (mode === "peek" ? 1 : 0);
