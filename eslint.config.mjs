@@ -3,6 +3,7 @@
 import fs from "node:fs";
 import nextVitals from "eslint-config-next/core-web-vitals";
 import nextTs from "eslint-config-next/typescript";
+import importX from "eslint-plugin-import-x";
 
 // The direction of dependence, checked on every import (DEVELOPERS.md explains it): app/ and
 // scripts/ use lib/; lib/ uses db/; each lib domain imports only the domains listed for it here, so
@@ -242,8 +243,20 @@ const config = [
   {
     // Boundaries: no import cycles, and imports only in the directions of the map above.
     files: ["app/**", "lib/**", "db/**", "emails/**", "scripts/**", "*.ts"],
+    // The cycle check is eslint-plugin-import-x's: eslint-plugin-import's own (2.32) serialised the
+    // whole flat config for every module it visited and took 146 of the lint's 166 CPU seconds;
+    // import-x finds the same cycles, through the "@/" alias too, in a fraction of that.
+    plugins: { "import-x": importX },
+    settings: {
+      "import-x/resolver": {
+        typescript: { alwaysTryTypes: true },
+        node: { extensions: [".js", ".jsx", ".ts", ".tsx"] },
+      },
+      "import-x/parsers": { "@typescript-eslint/parser": [".ts", ".mts", ".cts", ".tsx", ".d.ts"] },
+      "import-x/extensions": [".js", ".jsx", ".mjs", ".ts", ".tsx"],
+    },
     rules: {
-      "import/no-cycle": ["error", { ignoreExternal: true }],
+      "import-x/no-cycle": ["error", { ignoreExternal: true }],
       "import/no-restricted-paths": ["error", { zones: boundaryZones }],
     },
   },

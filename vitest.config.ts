@@ -2,7 +2,7 @@ import path from "node:path";
 import { defineConfig } from "vitest/config";
 
 // Tests run against the real PostgreSQL that scripts/test.mjs starts; DATABASE_URL points at the
-// separate test database. Files run one at a time because they share that database; a full run starts
+// separate test database. Files run one at a time, in one process, because they share that database; a full run starts
 // several copies of the set-up, each with its own database, and splits the files over them.
 export default defineConfig({
   // `npm test` runs several vitest processes at once (scripts/test.mjs); each keeps its own cache of
@@ -23,6 +23,11 @@ export default defineConfig({
     server: { deps: { inline: ["next-auth", "@auth/core"] } },
     setupFiles: ["tests/setup.ts"],
     fileParallelism: false,
+    // One process runs a copy's files one after another and keeps the modules it loaded: each file
+    // re-importing the app's libraries (the database client, Auth.js, the hazard engine, the PDF
+    // renderer) cost about 3 s of a 2-core machine per file. Files must therefore leave no state
+    // behind in modules: helpers undo their work through tests/support/file-cleanup.ts.
+    isolate: false,
     testTimeout: 30_000,
     hookTimeout: 60_000,
   },

@@ -3,6 +3,10 @@
 import { afterAll } from "vitest";
 
 afterAll(async () => {
+  // What shared helpers registered for this file (tests/support/file-cleanup.ts), while the pools
+  // are still open.
+  const { runFileCleanups } = await import("./support/file-cleanup");
+  await runFileCleanups();
   // Close the pool a test file opened, so vitest can end the worker cleanly.
   const { closeDb } = await import("@/db");
   await closeDb();

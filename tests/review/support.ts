@@ -4,7 +4,6 @@
 // assessment), the draft → submitted transition with waitingSince, chainStep 0 and the chain rules
 // version in force, then afterSubmit (tier 0 self-certifies there).
 import { eq, inArray, sql } from "drizzle-orm";
-import { afterAll } from "vitest";
 import { getDb } from "@/db";
 import {
   applicationRevisions,
@@ -25,6 +24,7 @@ import { transition } from "@/lib/applications/state";
 import { currentChainRules } from "@/lib/rules/queries";
 import { applicationContentSchema, type ApplicationContent } from "@/lib/applications/schemas";
 import { createDepartment, createUser, uniq } from "../support/db";
+import { onFileEnd } from "../support/file-cleanup";
 
 /**
  * One capacitor per tier, checked against the engine in review-fixtures.test.ts. Values from
@@ -258,16 +258,27 @@ export function asActor(user: User): CurrentUser {
 // Every recommendation mails every active safety officer (product.md), so officers made by one test
 // file would receive the next files' mail by the thousand. Each file shares one safety office, and
 // the officers a file made are disabled when it ends.
-const officerIds: string[] = [];
+// This module is evaluated once for all the files a vitest process runs (no isolation), so the
+// list and the shared office are emptied when each file ends (tests/support/file-cleanup.ts).
+let officerIds: string[] = [];
 let sharedOffice: Promise<{ office: Department; officer: User; officer2: User }> | undefined;
+let cleanupRegistered = false;
 
-afterAll(async () => {
-  if (officerIds.length === 0) return;
-  await getDb().update(users).set({ disabledAt: new Date() }).where(inArray(users.id, officerIds));
-});
+async function disableFileOfficers() {
+  const ids = officerIds;
+  officerIds = [];
+  cleanupRegistered = false;
+  sharedOffice = undefined;
+  if (ids.length === 0) return;
+  await getDb().update(users).set({ disabledAt: new Date() }).where(inArray(users.id, ids));
+}
 
 /** A safety officer (or someone who also holds that role) who is disabled when the test file ends. */
 export async function createOfficer(options: { departmentId: string | null; roles?: Role[] }): Promise<User> {
+  if (!cleanupRegistered) {
+    cleanupRegistered = true;
+    onFileEnd(disableFileOfficers);
+  }
   const user = await createUser({ roles: options.roles ?? ["safety_officer"], departmentId: options.departmentId });
   officerIds.push(user.id);
   return user;
