@@ -198,15 +198,30 @@ export function inboxDir(): string {
   return dir;
 }
 
+// A message file never changes once the inbox has renamed it into place (scripts/local-inbox.ts), so
+// each is read and parsed once: tests poll caughtTo() every 100 ms for a dozen addresses at a time,
+// and re-parsing the whole inbox (hundreds of messages by the end of a run) on every poll cost
+// whole CPU seconds per poll.
+const parsed = new Map<string, Caught>();
+
 export function caughtTo(address: string): Caught[] {
   const dir = inboxDir();
   if (!fs.existsSync(dir)) return [];
+  const wanted = address.toLowerCase();
   return fs
     .readdirSync(dir)
     .filter((n) => n.endsWith(".json"))
     .sort()
-    .map((n) => JSON.parse(fs.readFileSync(path.join(dir, n), "utf8")) as Caught)
-    .filter((m) => m.envelope.to.some((t) => t.toLowerCase() === address.toLowerCase()));
+    .map((n) => {
+      const file = path.join(dir, n);
+      let message = parsed.get(file);
+      if (!message) {
+        message = JSON.parse(fs.readFileSync(file, "utf8")) as Caught;
+        parsed.set(file, message);
+      }
+      return message;
+    })
+    .filter((m) => m.envelope.to.some((t) => t.toLowerCase() === wanted));
 }
 
 export function inboxPort(): number {
