@@ -7,6 +7,7 @@ import path from "node:path";
 import { spawnSync } from "node:child_process";
 // @ts-expect-error plain JavaScript helpers shared with the start and test scripts
 import { bin, pgPaths, PG_PORT, PG_USER, psql, root, run } from "../lib/services.mjs";
+import { revisionHash } from "../../lib/signing/canonical";
 
 type Env = Record<string, string>;
 
@@ -89,6 +90,7 @@ export function makeDataset(env: Env, base: string, database: string, n: number)
     { encoding: "utf8", env: { ...process.env, PGPASSWORD: env.LOCAL_PG_PASSWORD } },
   );
   if (result.status !== 0) throw new Error(`generating ${n} permits failed: ${result.stderr}`);
+  signGeneratedContent(env, database);
   // Seal the generated decisions (scripts/lib/migrate.ts does it for rows without a seal).
   const url = databaseUrlFor(env, database);
   run(bin("tsx"), ["scripts/migrate.ts"], {
@@ -110,4 +112,41 @@ export function makeDataset(env: Env, base: string, database: string, n: number)
     counts[table] = Number(psql(env, `SELECT count(*) FROM ${table}`, database));
   }
   return { database, permits: n, seconds, counts };
+}
+
+/**
+ * Gives the generated revisions the content hash their content really has, the decisions that sign
+ * them that hash, and each approval the permit terms it granted, before the decisions are sealed: so
+ * a generated permit's signatures check out, as a real one's do, and the status page and the permit
+ * page measure the usual case (a permit whose seals do not check out is re-checked on every look-up).
+ * data.sql gives every revision of a tier the same content, so there is one hash per tier.
+ */
+function signGeneratedContent(env: Record<string, string>, database: string) {
+  const generated = `content_hash = md5(id::text)`;
+  const rows = (
+    psql(
+      env,
+      `SELECT DISTINCT ON (tier) tier || '\t' || content::text || '\t' || assessment::text FROM application_revision WHERE ${generated} ORDER BY tier`,
+      database,
+    ) as string
+  )
+    .split("\n")
+    .filter(Boolean);
+  const statements = rows.map((line) => {
+    const [tier, content, assessment] = line.split("\t");
+    const hash = revisionHash(JSON.parse(content), JSON.parse(assessment));
+    return `UPDATE application_revision SET content_hash = '${hash}' WHERE tier = ${Number(tier)} AND ${generated};`;
+  });
+  psql(
+    env,
+    [
+      ...statements,
+      `UPDATE decision d SET content_hash = r.content_hash FROM application_revision r
+         WHERE d.revision_id = r.id AND d.hmac IS NULL AND d.content_hash = md5(r.id::text);`,
+      `UPDATE decision d SET valid_from = p.valid_from, valid_to = p.valid_to, validity_reason = p.validity_reason,
+         conditions = p.conditions FROM permit p
+         WHERE p.revision_id = d.revision_id AND d.kind = 'approve' AND d.hmac IS NULL;`,
+    ].join("\n"),
+    database,
+  );
 }
