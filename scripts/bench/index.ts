@@ -459,6 +459,8 @@ type Measure = {
   requests: number;
   errors: number;
   socketErrors: number;
+  /** Answers that were not 2xx, by status: "409": 3. */
+  statuses?: Record<string, number>;
   /** The server's CPU time per answered request (ms, user + system, its process tree; see treeCpuMs). */
   cpuMsPerRequest?: number;
 };
@@ -539,6 +541,11 @@ async function load(
     // in flight, which the server then sees reset; that is the harness, not an answer.
     errors: result.timeouts + result.non2xx,
     socketErrors: result.errors,
+    statuses: Object.fromEntries(
+      Object.entries((result as { statusCodeStats?: Record<string, { count: number }> }).statusCodeStats ?? {})
+        .filter(([code]) => !code.startsWith("2"))
+        .map(([code, v]) => [code, v.count]),
+    ),
     cpuMsPerRequest: result.requests.total > 0 ? round(cpuMs / result.requests.total, 2) : undefined,
   };
 }
@@ -819,8 +826,16 @@ async function main() {
             ` · baseline ${String(baseM.rps).padStart(6)} req/s p95 ${baseM.p95} ms err ${baseM.errors} · ratio ${ratio}` +
             ` · CPU per request app ${appM.cpuMsPerRequest} ms, baseline ${baseM.cpuMsPerRequest} ms`,
         );
-        if (appM.errors) result.failures.push(`${n} permits: ${t.name} had ${appM.errors} errors on the app`);
-        if (baseM.errors) result.failures.push(`${n} permits: ${t.name} had ${baseM.errors} errors on the baseline`);
+        const byStatus = (m: Measure) =>
+          Object.entries(m.statuses ?? {})
+            .map(([code, count]) => `${count} × ${code}`)
+            .join(", ") || "timed out";
+        if (appM.errors)
+          result.failures.push(`${n} permits: ${t.name} had ${appM.errors} errors on the app (${byStatus(appM)})`);
+        if (baseM.errors)
+          result.failures.push(
+            `${n} permits: ${t.name} had ${baseM.errors} errors on the baseline (${byStatus(baseM)})`,
+          );
       }
       const rssAfterMb = treeRssMb(app.child.pid!);
       const plans = await explainAll(
