@@ -876,7 +876,7 @@ async function main() {
   fs.writeFileSync(path.join(BENCH_DIR, SMOKE ? "smoke-latest.json" : "latest.json"), JSON.stringify(result, null, 2));
   const markdown = renderMarkdown(result);
   console.log("\n" + markdown);
-  if (OUT) fs.writeFileSync(path.resolve(root, OUT), markdown);
+  if (OUT) fs.writeFileSync(path.resolve(root, OUT), markdown + handWritten(path.resolve(root, OUT)));
   console.log(`JSON: ${path.relative(root, json)}${OUT ? `; tables: ${OUT}` : ""}`);
   if (result.failures.length) {
     console.error(`\nThe run failed:\n${result.failures.map((f) => `  - ${f}`).join("\n")}`);
@@ -888,3 +888,14 @@ main().catch((error: unknown) => {
   console.error(error);
   process.exit(1);
 });
+
+/**
+ * The hand-written part of the tables' file (from its "## Where the time went" heading on: profiles
+ * and what each gain came from), kept when a run writes its tables again.
+ */
+function handWritten(file: string): string {
+  if (!fs.existsSync(file)) return "";
+  const text = fs.readFileSync(file, "utf8");
+  const at = text.indexOf("\n## Where the time went");
+  return at < 0 ? "" : "\n" + text.slice(at + 1);
+}
