@@ -481,8 +481,14 @@ async function load(
 ): Promise<Measure> {
   const cpuBefore = serverPid ? treeCpuMs(serverPid) : NaN;
   const times: number[] = [];
+  // Each draft's version as the server last gave it. Autocannon hands setupRequest and onResponse a
+  // context that starts afresh with every pass over `requests` (one request here), so a connection
+  // cannot carry its draft's version from one save to the next: the versions live here, and each save
+  // takes the next draft in turn. With 64 drafts and 16 connections a draft is saved again only after
+  // its last save was answered.
   let nextDraft = 0;
-  type Ctx = { draft?: string; version?: number };
+  const versions = new Map<string, number>();
+  type Ctx = { draft?: string };
   const request = {
     method: t.method,
     path: t.path,
@@ -492,30 +498,26 @@ async function load(
       const out: Record<string, unknown> = { ...req };
       if (t.perClient) out.headers = { ...(req.headers as object), "x-forwarded-for": nextClientAddress() };
       if (t.autosave) {
-        if (context.draft === undefined) {
-          context.draft = f.drafts[nextDraft++ % f.drafts.length];
-          context.version = 1;
-        }
-        out.path = forApp ? t.path.replace("{draft}", context.draft) : t.path;
-        out.body = autosaveBody(f, context.version!);
+        const draft = f.drafts[nextDraft++ % f.drafts.length];
+        context.draft = draft;
+        out.path = forApp ? t.path.replace("{draft}", draft) : t.path;
+        out.body = autosaveBody(f, versions.get(draft) ?? 1);
       }
       return out;
     },
     onResponse: (status: number, body: string, context: Ctx) => {
-      if (t.autosave && status === 200) {
+      if (!t.autosave || !context.draft) return;
+      if (status === 200) {
         try {
-          context.version = (JSON.parse(body) as { application: { version: number } }).application.version;
+          versions.set(context.draft, (JSON.parse(body) as { application: { version: number } }).application.version);
         } catch {
           // the baseline's answer carries no version
         }
       }
-      // A save that timed out may still have landed, and a connection autocannon opens again takes
-      // the next draft, which wraps after 64: either way the draft is ahead of the version this
-      // connection holds. The 409 names the current one; without this, every later save of the
-      // connection is a conflict too.
-      if (t.autosave && status === 409) {
+      // A save that timed out may still have landed: the 409 names the version the draft is at.
+      if (status === 409) {
         const current = /current version is (\d+)/.exec(body);
-        if (current) context.version = Number(current[1]);
+        if (current) versions.set(context.draft, Number(current[1]));
       }
     },
   };
