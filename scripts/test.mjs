@@ -75,30 +75,31 @@ const EXCLUSIVE = ["tests/reliability/pg-restart.test.ts"];
 // checkout with no earlier report of its own (CI): the longest files first, spread over the copies.
 // A file's own entry wins over its folder's; anything not named costs DEFAULT_WEIGHT.
 const WEIGHTS = {
-  "tests/e2e/journey.test.ts": 148,
-  "tests/e2e/forms-new-users.test.ts": 96,
-  "tests/e2e/review-chain.test.ts": 55,
-  "tests/e2e/review-permit-new-users.test.ts": 54,
-  "tests/e2e/application-form.test.ts": 52,
-  "tests/e2e/institution-sign-in.test.ts": 31,
-  "tests/e2e/training-rereview.test.ts": 26,
-  "tests/e2e/incidents.test.ts": 21,
-  "tests/e2e/": 12,
-  "tests/cluster/": 103,
-  "tests/pdf/render.test.ts": 71,
-  "tests/auth/matrix.test.ts": 69,
-  "tests/jobs/reminders.test.ts": 41,
+  "tests/e2e/journey.test.ts": 142,
+  "tests/cluster/cluster.test.ts": 96,
+  "tests/e2e/forms-new-users.test.ts": 88,
+  "tests/auth/matrix.test.ts": 82,
+  "tests/e2e/application-form.test.ts": 65,
+  "tests/e2e/review-chain.test.ts": 61,
+  "tests/pdf/render.test.ts": 58,
+  "tests/e2e/review-permit-new-users.test.ts": 58,
+  "tests/jobs/reminders.test.ts": 47,
   "tests/mail/delivery.test.ts": 35,
-  "tests/api/fuzz.test.ts": 25,
-  "tests/pdf/routes.test.ts": 16,
-  "tests/mail/dev-mail-browser.test.ts": 13,
-  "tests/verify/verify.test.ts": 12,
-  "tests/reports/demo-story-report.test.ts": 11,
-  "tests/live/live-sheet.test.ts": 11,
-  "tests/reliability/backup.test.ts": 11,
-  "tests/rules/preview-demo-story.test.ts": 9,
+  "tests/e2e/institution-sign-in.test.ts": 30,
+  "tests/e2e/training-rereview.test.ts": 26,
+  "tests/api/fuzz.test.ts": 21,
+  "tests/e2e/incidents.test.ts": 16,
+  "tests/e2e/upkeep.test.ts": 15,
+  "tests/pdf/routes.test.ts": 14,
+  "tests/e2e/pre-use-check.test.ts": 13,
+  "tests/reports/demo-story-report.test.ts": 12,
+  "tests/e2e/live-reports-a11y.test.ts": 11,
+  "tests/rules/preview-demo-story.test.ts": 11,
+  "tests/reliability/backup.test.ts": 10,
+  "tests/verify/verify.test.ts": 10,
+  "tests/e2e/": 8,
 };
-const DEFAULT_WEIGHT = 3;
+const DEFAULT_WEIGHT = 2;
 const BENCH_SMOKE_STAGE = "Benchmark smoke (npm run bench -- --smoke)";
 const BENCH_SMOKE_ARGS = ["scripts/bench/index.ts", "--smoke"];
 
